@@ -1,0 +1,44 @@
+"""The chemistry engine: exact acid–base equilibrium, activity, temperature,
+and the catalogue of textbook shortcuts. Pure and vectorized: no files, no
+templates, no plotting.
+
+The public names below are the stable API (see docs/api.md).
+"""
+
+from .activity import MODELS as ACTIVITY_MODELS
+from .approximations import CATALOGUE, Approximation, NotApplicable, applicable, approximation, working_constants
+from .activity import ActivityModel, activity_model, log_gamma, log_gamma_unit
+from .errors import ChemistryError, ConvergenceError, InputRangeError
+from .solver import Equilibrium, equilibrium
+from .species import Component, Protolyte, Solution
+from .temperature import pka_at_temperature
+from .water import debye_huckel_a, debye_huckel_b, pkw, pkw_iapws, relative_permittivity, water_density
+
+__all__ = [
+    "CATALOGUE",
+    "Approximation",
+    "NotApplicable",
+    "applicable",
+    "approximation",
+    "working_constants",
+    "ACTIVITY_MODELS",
+    "ActivityModel",
+    "ChemistryError",
+    "Component",
+    "ConvergenceError",
+    "Equilibrium",
+    "InputRangeError",
+    "Protolyte",
+    "Solution",
+    "activity_model",
+    "debye_huckel_a",
+    "debye_huckel_b",
+    "equilibrium",
+    "log_gamma",
+    "log_gamma_unit",
+    "pka_at_temperature",
+    "pkw",
+    "pkw_iapws",
+    "relative_permittivity",
+    "water_density",
+]

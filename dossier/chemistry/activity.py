@@ -1,0 +1,259 @@
+r"""Activity-coefficient models for single ions.
+
+Every model here has the form log10 γ_z = z² f(I): the activity coefficient of
+an ion of charge z is the one of a monovalent ion raised to the power z². The
+engine therefore only needs :func:`log_gamma_unit`, the base-10 logarithm of
+the activity coefficient of a monovalent ion, and multiplies by z².
+
+Models (``MODELS`` maps id → :class:`ActivityModel`):
+
+``ideal``
+    γ = 1.
+``debye-huckel``
+    limiting law, :math:`f = -A\sqrt{I}`.
+``extended-debye-huckel``
+    :math:`f = -A\sqrt{I}/(1 + B\mathring{a}\sqrt{I})`. With no ion size given,
+    Bå = 1.5 (kg/mol)^½ at every temperature, the Bates–Guggenheim
+    convention; with an ion size å [Å], Bå = B(T)·å.
+``davies``
+    :math:`f = -A\left(\frac{\sqrt{I}}{1+\sqrt{I}} - c\,I\right)` with
+    c = 0.3 (Davies 1962) unless another coefficient is given (0.2 is the
+    1938 original).
+
+References
+----------
+.. [1] P. Debye and E. Hückel, Phys. Z. 24, 185–206 (1923).
+.. [2] R. G. Bates and E. A. Guggenheim, "Report on the standardization of
+   pH and related terminology", Pure Appl. Chem. 1, 163–168 (1960).
+   doi:10.1351/pac196001010163
+.. [3] C. W. Davies, Ion Association (Butterworths, London, 1962), p. 41.
+.. [4] C. W. Davies, J. Chem. Soc. 1938, 2093–2098.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from .errors import InputRangeError
+from .water import debye_huckel_a, debye_huckel_b
+
+__all__ = [
+    "ActivityModel",
+    "MODELS",
+    "DAVIES_COEFFICIENT",
+    "BATES_GUGGENHEIM_BA",
+    "activity_model",
+    "log_gamma_unit",
+    "log_gamma",
+]
+
+DAVIES_COEFFICIENT = 0.3
+"""Linear coefficient of the Davies equation (Davies 1962) [kg/mol]."""
+
+BATES_GUGGENHEIM_BA = 1.5
+"""Product B·å of the Bates–Guggenheim convention [(kg/mol)^½]."""
+
+# f(sqrt_i, i, A, Ba, davies_coefficient) -> log10 gamma of a monovalent ion
+UnitLogGamma = Callable[[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], float], NDArray[np.float64]]
+
+
+@dataclass(frozen=True)
+class ActivityModel:
+    """One activity-coefficient model of the catalogue.
+
+    Attributes
+    ----------
+    id : str
+        Stable identifier used in method files and results.
+    title : str
+        Human-readable name.
+    equation : str
+        The equation in LaTeX, for reports.
+    applies_to : str
+        Range of ionic strength where the model is customarily used.
+    reference : str
+        Published source.
+    unit_log_gamma : callable
+        ``f(sqrt_i, i, A, Ba, c)`` → log10 γ of a monovalent ion.
+    """
+
+    id: str
+    title: str
+    equation: str
+    applies_to: str
+    reference: str
+    unit_log_gamma: UnitLogGamma
+
+
+def _ideal(sqrt_i, i, a, ba, c):  # noqa: ANN001, ANN202 - private kernels
+    return np.zeros_like(sqrt_i)
+
+
+def _limiting(sqrt_i, i, a, ba, c):  # noqa: ANN001, ANN202
+    return -a * sqrt_i
+
+
+def _extended(sqrt_i, i, a, ba, c):  # noqa: ANN001, ANN202
+    return -a * sqrt_i / (1.0 + ba * sqrt_i)
+
+
+def _davies(sqrt_i, i, a, ba, c):  # noqa: ANN001, ANN202
+    return -a * (sqrt_i / (1.0 + sqrt_i) - c * i)
+
+
+MODELS: dict[str, ActivityModel] = {
+    m.id: m
+    for m in (
+        ActivityModel(
+            "ideal",
+            "Ideal solution (activity = concentration)",
+            r"\log_{10}\gamma_i = 0",
+            "any ionic strength, as an approximation",
+            "definition",
+            _ideal,
+        ),
+        ActivityModel(
+            "debye-huckel",
+            "Debye–Hückel limiting law",
+            r"\log_{10}\gamma_i = -A z_i^2 \sqrt{I}",
+            "I below about 0.005 mol/kg",
+            "P. Debye and E. Hückel, Phys. Z. 24, 185 (1923)",
+            _limiting,
+        ),
+        ActivityModel(
+            "extended-debye-huckel",
+            "Extended Debye–Hückel equation",
+            r"\log_{10}\gamma_i = -\frac{A z_i^2 \sqrt{I}}{1 + B\mathring{a}\sqrt{I}}",
+            "I below about 0.1 mol/kg",
+            "P. Debye and E. Hückel, Phys. Z. 24, 185 (1923); Bå = 1.5 (kg/mol)^½ by the "
+            "Bates–Guggenheim convention, Pure Appl. Chem. 1, 163 (1960)",
+            _extended,
+        ),
+        ActivityModel(
+            "davies",
+            "Davies equation",
+            r"\log_{10}\gamma_i = -A z_i^2\left(\frac{\sqrt{I}}{1+\sqrt{I}} - c\,I\right)",
+            "I below about 0.5 mol/kg",
+            "C. W. Davies, Ion Association (Butterworths, London, 1962), p. 41",
+            _davies,
+        ),
+    )
+}
+
+
+def activity_model(model_id: str) -> ActivityModel:
+    """Look up an activity model by id.
+
+    Parameters
+    ----------
+    model_id : str
+        One of ``ideal``, ``debye-huckel``, ``extended-debye-huckel``, ``davies``.
+
+    Returns
+    -------
+    ActivityModel
+
+    Raises
+    ------
+    InputRangeError
+        For an unknown id; the message lists the known ones.
+
+    Examples
+    --------
+    >>> activity_model("davies").title
+    'Davies equation'
+    """
+    try:
+        return MODELS[model_id]
+    except (KeyError, TypeError):
+        known = ", ".join(MODELS)
+        raise InputRangeError("activity", f"unknown activity model {model_id!r}; allowed: {known}") from None
+
+
+def log_gamma_unit(
+    ionic_strength: ArrayLike,
+    temperature: ArrayLike = 25.0,
+    model: str = "davies",
+    *,
+    davies_coefficient: float = DAVIES_COEFFICIENT,
+    ion_size: float | None = None,
+) -> NDArray[np.float64]:
+    r"""log10 of the activity coefficient of a monovalent ion.
+
+    Parameters
+    ----------
+    ionic_strength : float or array
+        Ionic strength I [mol/kg].
+    temperature : float or array
+        Temperature [°C]; sets A(T) and B(T).
+    model : str
+        Activity-model id (see :data:`MODELS`).
+    davies_coefficient : float
+        Linear coefficient c of the Davies equation [kg/mol]; 0.3 (1962).
+    ion_size : float, optional
+        Ion-size parameter å [Å] of the extended Debye–Hückel equation. When
+        not given, Bå = 1.5 (kg/mol)^½ (Bates–Guggenheim convention).
+
+    Returns
+    -------
+    array
+        log10 γ(z = ±1) [dimensionless].
+
+    Examples
+    --------
+    Davies at I = 0.1 mol/kg and 25 °C: γ ≈ 0.78 (common textbook figure):
+
+    >>> round(10 ** float(log_gamma_unit(0.1, 25.0, "davies")), 3)
+    0.781
+
+    References
+    ----------
+    .. [1] C. W. Davies, Ion Association (Butterworths, 1962), p. 41.
+    """
+    m = activity_model(model)
+    i = np.asarray(ionic_strength, dtype=np.float64)
+    sqrt_i = np.sqrt(i)
+    a = np.asarray(debye_huckel_a(temperature), dtype=np.float64)
+    if ion_size is None:
+        ba = np.asarray(BATES_GUGGENHEIM_BA)
+    else:
+        ba = np.asarray(debye_huckel_b(temperature), dtype=np.float64) * ion_size
+    return m.unit_log_gamma(sqrt_i, i, a, ba, davies_coefficient)
+
+
+def log_gamma(
+    charge: int,
+    ionic_strength: ArrayLike,
+    temperature: ArrayLike = 25.0,
+    model: str = "davies",
+    **options: float | None,
+) -> NDArray[np.float64]:
+    r"""log10 of the activity coefficient of an ion of the given charge.
+
+    .. math::
+        \log_{10}\gamma_z = z^2 \log_{10}\gamma_{\pm 1}
+
+    Parameters
+    ----------
+    charge : int
+        Charge number z of the ion.
+    ionic_strength, temperature, model, options
+        As for :func:`log_gamma_unit`.
+
+    Returns
+    -------
+    array
+        log10 γ_z [dimensionless].
+
+    Examples
+    --------
+    Limiting law, divalent ion, I = 0.001 mol/kg, 25 °C: γ = 10^(−4·0.5108·0.0316):
+
+    >>> round(10 ** float(log_gamma(2, 0.001, 25.0, "debye-huckel")), 4)
+    0.8617
+    """
+    return charge * charge * log_gamma_unit(ionic_strength, temperature, model, **options)

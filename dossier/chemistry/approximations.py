@@ -1,0 +1,562 @@
+r"""The catalogue of textbook pH shortcuts.
+
+Each :class:`Approximation` has a stable id, a title, its equation (LaTeX),
+its assumptions in words, a test of whether it applies to a solution, and a
+vectorized pH. Its *error* is always approximate pH − exact pH, where the
+exact pH is the activity-scale pH of :func:`~dossier.chemistry.equilibrium`.
+
+All shortcuts use the constants at the solution's temperature (pKa by van 't
+Hoff, pKw from IAPWS R11-07 or the stated override) and concentrations in
+place of activities; the assumption that the 25 °C constants hold at another
+temperature is a shortcut of its own (``constants-at-25c``).
+
+Symbols: C total concentration of the (single) component [mol/L]; Ka, Kb the
+acid and base constants of the step involved, Kb = Kw/Ka; h = [H⁺].
+
+References
+----------
+.. [1] D. C. Harris, Quantitative Chemical Analysis, 9th ed. (Freeman, 2015),
+   chapters "Monoprotic Acid–Base Equilibria" and "Polyprotic Acid–Base
+   Equilibria".
+.. [2] D. A. Skoog, D. M. West, F. J. Holler and S. R. Crouch, Fundamentals of
+   Analytical Chemistry, 9th ed. (Brooks/Cole, 2014), chapter "Solving
+   Equilibrium Problems for Complex Systems".
+.. [3] L. J. Henderson, Am. J. Physiol. 21, 173–179 (1908);
+   K. A. Hasselbalch, Biochem. Z. 78, 112–144 (1916).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from .errors import InputRangeError
+from .solver import Equilibrium, equilibrium
+from .species import Component, Number, Protolyte, Solution
+from .temperature import pka_at_temperature
+from .water import pkw as pkw_iapws
+
+__all__ = [
+    "Approximation",
+    "CATALOGUE",
+    "NotApplicable",
+    "approximation",
+    "applicable",
+    "working_constants",
+]
+
+
+class NotApplicable(InputRangeError):
+    """The shortcut does not apply to this solution (the message says why)."""
+
+
+def _np(v: Number) -> np.ndarray:
+    return np.asarray(v, dtype=np.float64)
+
+
+def _out(v: np.ndarray) -> Number:
+    v = np.asarray(v, dtype=np.float64)
+    return float(v) if v.ndim == 0 else v
+
+
+def working_constants(solution: Solution) -> tuple[list[list[Number]], Number]:
+    """pKa values of every component and pKw at the solution's temperature.
+
+    Parameters
+    ----------
+    solution : Solution
+
+    Returns
+    -------
+    (list of list of float or array, float or array)
+        ``pka[k][i]``: pKa of step i + 1 of component k at the temperature
+        (van 't Hoff where ΔH° is known); pKw (the override when given).
+
+    Examples
+    --------
+    >>> sol = Solution([Component(Protolyte("tris", (8.072,), charge=1, dh=(47.45,)), 0.05)], temperature=37.0)
+    >>> pka, pkw = working_constants(sol)
+    >>> round(pka[0][0], 2), round(pkw, 3)
+    (7.75, 13.621)
+    """
+    t = solution.temperature
+    pkas = []
+    for c in solution.components:
+        p = c.protolyte
+        pkas.append(
+            [
+                pka_at_temperature(pk, t, p.dh[i] if p.dh else None, p.dcp[i] if p.dcp else None)
+                for i, pk in enumerate(p.pka)
+            ]
+        )
+    pkw = solution.pkw if solution.pkw is not None else pkw_iapws(t)
+    return pkas, pkw
+
+
+def _no_strong(solution: Solution) -> str | None:
+    if np.any(_np(solution.strong_acid) > 0) or np.any(_np(solution.strong_base) > 0):
+        return "the solution contains added strong acid or base"
+    return None
+
+
+def _single(solution: Solution) -> str | None:
+    if len(solution.components) != 1:
+        return f"needs exactly one acid–base component (the solution has {len(solution.components)})"
+    return _no_strong(solution)
+
+
+# ---------------------------------------------------------------- applicability tests
+def _weak_acid_applies(s: Solution) -> str | None:
+    why = _single(s)
+    if why:
+        return why
+    if s.components[0].removed != 0:
+        return "the component is not added in its fully protonated (acid) form"
+    return None
+
+
+def _base_applies(neutral: bool) -> Callable[[Solution], str | None]:
+    def test(s: Solution) -> str | None:
+        why = _single(s)
+        if why:
+            return why
+        c = s.components[0]
+        if c.removed != c.protolyte.steps:
+            return "the component is not added in its fully deprotonated (base) form"
+        if neutral and c.form_charge != 0:
+            return "the base as added is charged (a salt): use conjugate-base-square-root"
+        if not neutral and c.form_charge == 0:
+            return "the base as added is uncharged: use weak-base-square-root"
+        return None
+
+    return test
+
+
+def _ampholyte_applies(s: Solution) -> str | None:
+    why = _single(s)
+    if why:
+        return why
+    c = s.components[0]
+    if not 0 < c.removed < c.protolyte.steps:
+        return "the component is not added in an intermediate (amphiprotic) form"
+    return None
+
+
+def _same_protolyte(a: Protolyte, b: Protolyte) -> bool:
+    if a is b:
+        return True
+    return (
+        a.name == b.name
+        and a.charge == b.charge
+        and a.steps == b.steps
+        and all(np.array_equal(_np(x), _np(y)) for x, y in zip(a.pka, b.pka))
+    )
+
+
+def _hh_pair(s: Solution) -> tuple[int, int, int] | None:
+    """(acid index, base index, step) for an acid and its conjugate base, if present."""
+    if len(s.components) != 2:
+        return None
+    c0, c1 = s.components
+    if not _same_protolyte(c0.protolyte, c1.protolyte):
+        return None
+    if c1.removed == c0.removed + 1:
+        return 0, 1, c1.removed
+    if c0.removed == c1.removed + 1:
+        return 1, 0, c0.removed
+    return None
+
+
+def _hh_applies(s: Solution) -> str | None:
+    ca, cb = _np(s.strong_acid), _np(s.strong_base)
+    if _hh_pair(s) is not None:
+        return _no_strong(s)
+    if len(s.components) == 1:
+        c = s.components[0]
+        total = _np(c.total)
+        if np.any(cb > 0) and not np.any(ca > 0):
+            if c.removed == c.protolyte.steps:
+                return "strong base added to a fully deprotonated form leaves no conjugate pair"
+            if np.any(cb >= total):
+                return "the strong base is not less than the component it neutralizes"
+            return None
+        if np.any(ca > 0) and not np.any(cb > 0):
+            if c.removed == 0:
+                return "strong acid added to a fully protonated form leaves no conjugate pair"
+            if np.any(ca >= total):
+                return "the strong acid is not less than the component it neutralizes"
+            return None
+    return "needs an acid and its conjugate base: two forms of one substance differing by one proton, or one form partly neutralized by strong acid or base"
+
+
+def _first_step_applies(s: Solution) -> str | None:
+    poly = [c for c in s.components if c.protolyte.steps > 1]
+    if not poly:
+        return "no component has more than one ionization step"
+    for c in poly:
+        if c.removed not in (0, c.protolyte.steps):
+            return f"{c.protolyte.name} is added in an intermediate form, where no single step dominates"
+    return None
+
+
+def _ideal_applies(s: Solution) -> str | None:
+    if s.activity == "ideal":
+        return "the method already treats the solution as ideal"
+    return None
+
+
+def _at_25_applies(s: Solution) -> str | None:
+    if np.all(_np(s.temperature) == 25.0):
+        return "the working temperature is 25 °C"
+    return None
+
+
+# ---------------------------------------------------------------- pH formulas
+def _weak_acid_parts(s: Solution) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    pka, pkw = working_constants(s)
+    return _np(pka[0][0]), _np(s.components[0].total), _np(pkw)
+
+
+def _ph_weak_acid_sqrt(s: Solution) -> Number:
+    pka, c, _ = _weak_acid_parts(s)
+    return _out(0.5 * (pka - np.log10(c)))
+
+
+def _ph_weak_acid_quadratic(s: Solution) -> Number:
+    pka, c, _ = _weak_acid_parts(s)
+    ka = 10.0**-pka
+    h = 2.0 * ka * c / (ka + np.sqrt(ka * ka + 4.0 * ka * c))
+    return _out(-np.log10(h))
+
+
+def _ph_weak_acid_water(s: Solution) -> Number:
+    pka, c, pkw = _weak_acid_parts(s)
+    return _out(-0.5 * np.log10(10.0**-pka * c + 10.0**-pkw))
+
+
+def _base_parts(s: Solution) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    pka, pkw = working_constants(s)
+    c = s.components[0]
+    pk_last = _np(pka[0][c.protolyte.steps - 1])
+    pkw = _np(pkw)
+    return pkw - pk_last, _np(c.total), pkw
+
+
+def _ph_base_sqrt(s: Solution) -> Number:
+    pkb, c, pkw = _base_parts(s)
+    return _out(pkw - 0.5 * (pkb - np.log10(c)))
+
+
+def _ph_base_quadratic(s: Solution) -> Number:
+    pkb, c, pkw = _base_parts(s)
+    kb = 10.0**-pkb
+    oh = 2.0 * kb * c / (kb + np.sqrt(kb * kb + 4.0 * kb * c))
+    return _out(pkw + np.log10(oh))
+
+
+def _ph_hh(s: Solution) -> Number:
+    pka, _ = working_constants(s)
+    pair = _hh_pair(s)
+    if pair is not None:
+        acid, base, step = pair
+        ratio = _np(s.components[base].total) / _np(s.components[acid].total)
+        return _out(_np(pka[0][step - 1]) + np.log10(ratio))
+    c = s.components[0]
+    total = _np(c.total)
+    cb = _np(s.strong_base)
+    if np.any(cb > 0):
+        return _out(_np(pka[0][c.removed]) + np.log10(cb / (total - cb)))
+    ca = _np(s.strong_acid)
+    return _out(_np(pka[0][c.removed - 1]) + np.log10((total - ca) / ca))
+
+
+def _ph_ampholyte(s: Solution) -> Number:
+    pka, _ = working_constants(s)
+    r = s.components[0].removed
+    return _out(0.5 * (_np(pka[0][r - 1]) + _np(pka[0][r])))
+
+
+def _first_step_solution(s: Solution) -> Solution:
+    comps = []
+    for c in s.components:
+        p = c.protolyte
+        n = p.steps
+        if n == 1:
+            comps.append(c)
+            continue
+        i = 0 if c.removed == 0 else n - 1
+        mono = Protolyte(
+            f"{p.name} (step {i + 1} only)",
+            (p.pka[i],),
+            charge=p.charge - i,
+            dh=None if p.dh is None else (p.dh[i],),
+            dcp=None if p.dcp is None else (p.dcp[i],),
+        )
+        comps.append(Component(mono, c.total, removed=0 if c.removed == 0 else 1))
+    return replace(s, components=tuple(comps))
+
+
+def _ph_first_step(s: Solution) -> Number:
+    return equilibrium(_first_step_solution(s)).ph
+
+
+def _ph_ideal(s: Solution) -> Number:
+    return equilibrium(replace(s, activity="ideal")).ph
+
+
+def _at_25_solution(s: Solution) -> Solution:
+    comps = tuple(
+        Component(replace(c.protolyte, dh=None, dcp=None), c.total, c.removed) for c in s.components
+    )
+    pkw25 = s.pkw if s.pkw is not None else pkw_iapws(25.0)
+    return replace(s, components=comps, pkw=pkw25)
+
+
+def _ph_at_25(s: Solution) -> Number:
+    return equilibrium(_at_25_solution(s)).ph
+
+
+# ---------------------------------------------------------------- the catalogue
+@dataclass(frozen=True)
+class Approximation:
+    """One textbook shortcut for the pH of a solution.
+
+    Attributes
+    ----------
+    id : str
+        Stable identifier (used in method files, results and reports).
+    title : str
+        Published or customary name.
+    equation : str
+        The shortcut in LaTeX.
+    assumptions : tuple of str
+        What the shortcut neglects, in words.
+    applies_when : str
+        The kind of solution it is meant for, in words.
+    reference : str
+        Where the formula is published.
+    """
+
+    id: str
+    title: str
+    equation: str
+    assumptions: tuple[str, ...]
+    applies_when: str
+    reference: str
+    _why_not: Callable[[Solution], str | None]
+    _ph: Callable[[Solution], Number]
+
+    def why_not(self, solution: Solution) -> str | None:
+        """None when the shortcut applies to ``solution``, else the reason in words."""
+        return self._why_not(solution)
+
+    def applies(self, solution: Solution) -> bool:
+        """Whether the shortcut applies to ``solution``."""
+        return self._why_not(solution) is None
+
+    def ph(self, solution: Solution) -> Number:
+        """The shortcut's pH (float or array of the solution's shape).
+
+        Raises
+        ------
+        NotApplicable
+            When the shortcut does not apply; the message says why.
+        """
+        why = self._why_not(solution)
+        if why is not None:
+            raise NotApplicable(self.id, why)
+        return self._ph(solution)
+
+    def error(self, solution: Solution, exact: Equilibrium | None = None) -> Number:
+        """Approximate pH − exact pH (activity scale).
+
+        Parameters
+        ----------
+        solution : Solution
+        exact : Equilibrium, optional
+            The solved equilibrium of ``solution``, if already at hand.
+
+        Examples
+        --------
+        Acetic acid 1e-4 mol/L, Ka 1.8e-5: the square-root formula gives 4.372
+        where the exact pH is 4.464 (REFERENCES §6.2, computed values):
+
+        >>> ac = Protolyte("acetic", (-np.log10(1.8e-5),))
+        >>> s = Solution([Component(ac, 1e-4)], pkw=14.0)
+        >>> round(CATALOGUE["weak-acid-square-root"].error(s), 3)
+        -0.091
+        """
+        approx = _np(self.ph(solution))
+        ex = exact if exact is not None else equilibrium(solution)
+        return _out(approx - _np(ex.ph))
+
+
+_T = "D. C. Harris, Quantitative Chemical Analysis, 9th ed. (2015); D. A. Skoog et al., Fundamentals of Analytical Chemistry, 9th ed. (2014)"
+
+CATALOGUE: dict[str, Approximation] = {
+    a.id: a
+    for a in (
+        Approximation(
+            "weak-acid-square-root",
+            "Square-root formula for a weak acid",
+            r"\mathrm{pH} = \tfrac12\left(\mathrm{p}K_a - \log_{10} C\right)",
+            (
+                "the acid barely dissociates: [HA] ≈ C",
+                "water contributes no H⁺",
+                "activities equal concentrations",
+            ),
+            "a single weak acid added in its fully protonated form",
+            _T,
+            _weak_acid_applies,
+            _ph_weak_acid_sqrt,
+        ),
+        Approximation(
+            "weak-acid-quadratic",
+            "Quadratic formula for a weak acid (water neglected)",
+            r"[\mathrm{H^+}] = \frac{-K_a + \sqrt{K_a^2 + 4K_aC}}{2}",
+            ("water contributes no H⁺", "activities equal concentrations"),
+            "a single weak acid added in its fully protonated form",
+            _T,
+            _weak_acid_applies,
+            _ph_weak_acid_quadratic,
+        ),
+        Approximation(
+            "weak-acid-water-corrected",
+            "Weak acid with water's H⁺ (dissociation neglected)",
+            r"[\mathrm{H^+}]^2 = K_aC + K_w",
+            ("the acid barely dissociates: [HA] ≈ C", "activities equal concentrations"),
+            "a single weak acid added in its fully protonated form, very dilute or very weak",
+            _T,
+            _weak_acid_applies,
+            _ph_weak_acid_water,
+        ),
+        Approximation(
+            "weak-base-square-root",
+            "Square-root formula for a weak base",
+            r"\mathrm{pOH} = \tfrac12\left(\mathrm{p}K_b - \log_{10} C\right),\quad \mathrm{p}K_b = \mathrm{p}K_w - \mathrm{p}K_a",
+            (
+                "the base barely reacts with water: [B] ≈ C",
+                "water contributes no OH⁻",
+                "activities equal concentrations",
+            ),
+            "a single uncharged weak base (e.g. ammonia, TRIS) added as the free base",
+            _T,
+            _base_applies(neutral=True),
+            _ph_base_sqrt,
+        ),
+        Approximation(
+            "weak-base-quadratic",
+            "Quadratic formula for a weak base (water neglected)",
+            r"[\mathrm{OH^-}] = \frac{-K_b + \sqrt{K_b^2 + 4K_bC}}{2}",
+            ("water contributes no OH⁻", "activities equal concentrations"),
+            "a single uncharged weak base added as the free base",
+            _T,
+            _base_applies(neutral=True),
+            _ph_base_quadratic,
+        ),
+        Approximation(
+            "conjugate-base-square-root",
+            "Square-root formula for the salt of a weak acid",
+            r"\mathrm{pH} = \tfrac12\left(\mathrm{p}K_w + \mathrm{p}K_a + \log_{10} C\right)",
+            (
+                "the anion barely hydrolyses: [A⁻] ≈ C",
+                "water contributes no OH⁻",
+                "activities equal concentrations",
+            ),
+            "a single salt of a weak acid (e.g. sodium acetate) in its fully deprotonated form",
+            _T,
+            _base_applies(neutral=False),
+            _ph_base_sqrt,
+        ),
+        Approximation(
+            "henderson-hasselbalch",
+            "Henderson–Hasselbalch equation",
+            r"\mathrm{pH} = \mathrm{p}K_a + \log_{10}\frac{C_{\mathrm{base}}}{C_{\mathrm{acid}}}",
+            (
+                "acid and base keep their analytical concentrations (no dissociation or hydrolysis)",
+                "water contributes neither H⁺ nor OH⁻",
+                "activities equal concentrations",
+            ),
+            "a buffer: an acid and its conjugate base, or one form partly neutralized by strong acid or base",
+            "L. J. Henderson, Am. J. Physiol. 21, 173 (1908); K. A. Hasselbalch, Biochem. Z. 78, 112 (1916)",
+            _hh_applies,
+            _ph_hh,
+        ),
+        Approximation(
+            "ampholyte-mean",
+            "Mean of the two pKa values of an ampholyte",
+            r"\mathrm{pH} = \tfrac12\left(\mathrm{p}K_{a,r} + \mathrm{p}K_{a,r+1}\right)",
+            (
+                "the concentration is large compared with Ka,r and with Kw/Ka,r+1",
+                "activities equal concentrations",
+            ),
+            "a single amphiprotic form such as NaH₂PO₄, NaHCO₃ or potassium hydrogen phthalate",
+            _T,
+            _ampholyte_applies,
+            _ph_ampholyte,
+        ),
+        Approximation(
+            "first-step-only",
+            "Polyprotic acid treated as monoprotic",
+            r"\text{exact solution with only the step the added form takes part in}",
+            ("the further ionization steps do not contribute",),
+            "a polyprotic acid added fully protonated, or its base added fully deprotonated",
+            _T,
+            _first_step_applies,
+            _ph_first_step,
+        ),
+        Approximation(
+            "ideal-activity",
+            "Activities taken equal to concentrations",
+            r"\gamma_i = 1",
+            ("every activity coefficient is 1",),
+            "any solution whose method uses an activity model",
+            "R. G. Bates, Determination of pH, 2nd ed. (Wiley, 1973)",
+            _ideal_applies,
+            _ph_ideal,
+        ),
+        Approximation(
+            "constants-at-25c",
+            "Equilibrium constants at 25 °C used at the working temperature",
+            r"\mathrm{p}K_a(T) = \mathrm{p}K_a(25\,^\circ\mathrm{C}),\quad \mathrm{p}K_w(T) = \mathrm{p}K_w(25\,^\circ\mathrm{C})",
+            ("pKa and pKw do not change with temperature",),
+            "any solution used at a temperature other than 25 °C",
+            "J. H. van 't Hoff, Études de dynamique chimique (1884); R. N. Goldberg et al., J. Phys. Chem. Ref. Data 31, 231 (2002)",
+            _at_25_applies,
+            _ph_at_25,
+        ),
+    )
+}
+
+
+def approximation(approximation_id: str) -> Approximation:
+    """Look up a shortcut by id.
+
+    Raises
+    ------
+    InputRangeError
+        For an unknown id; the message lists the known ones.
+
+    Examples
+    --------
+    >>> approximation("henderson-hasselbalch").title
+    'Henderson–Hasselbalch equation'
+    """
+    try:
+        return CATALOGUE[approximation_id]
+    except KeyError:
+        raise InputRangeError("approximation", f"unknown shortcut {approximation_id!r}; known: {', '.join(CATALOGUE)}") from None
+
+
+def applicable(solution: Solution) -> list[Approximation]:
+    """Every shortcut of the catalogue that applies to ``solution``, in catalogue order.
+
+    Examples
+    --------
+    >>> ac = Protolyte("acetic", (4.756,))
+    >>> [a.id for a in applicable(Solution([Component(ac, 0.1)]))]
+    ['weak-acid-square-root', 'weak-acid-quadratic', 'weak-acid-water-corrected']
+    """
+    return [a for a in CATALOGUE.values() if a.applies(solution)]
