@@ -1,0 +1,136 @@
+r"""Concentrations with units, read through the pint units library.
+
+Accepted (DESIGN §4): mol/L, mmol/L, µmol/L (also umol/L), M, mM, mol/kg,
+mg/L or g/L with a molar mass, and % w/v (grams per 100 mL) with a molar
+mass. Everything is converted to amount concentration [mol/L]:
+
+.. math::
+    c = m\,\rho_w(t) \quad\text{(molality, dilute solution)}, \qquad
+    c = \frac{\rho_B}{M_B} \quad\text{(mass concentration)}
+
+where ρw is the density of water at the working temperature [kg/L]
+(Kell 1975) — the dilute-solution approximation, in which the mass of
+solvent per litre of solution is that of a litre of water.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+from ..chemistry.water import water_density
+
+__all__ = ["UnitError", "Concentration", "parse_concentration", "ALLOWED_UNITS"]
+
+ALLOWED_UNITS = "mol/L, mmol/L, µmol/L (or umol/L), mol/kg, mg/L or g/L (with a molar mass), % w/v (with a molar mass)"
+
+_WV = re.compile(r"%\s*\(?\s*w\s*/\s*v\s*\)?\s*$", re.IGNORECASE)
+
+
+class UnitError(ValueError):
+    """A concentration or unit that cannot be read or converted (message says why)."""
+
+
+@lru_cache(maxsize=1)
+def _registry():  # noqa: ANN202 - pint's registry type
+    import pint  # imported lazily: building the registry takes a noticeable time
+
+    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    ureg.define("percent_weight_per_volume = gram / (100 * milliliter)")
+    return ureg
+
+
+def _tidy(value: float) -> float:
+    """Drop the last-digit noise of unit conversion (5 µmol/L → 5e-06, not 4.9999999999999996e-06)."""
+    return float(f"{float(value):.15g}")
+
+
+@dataclass(frozen=True)
+class Concentration:
+    """A concentration as written and its value in mol/L.
+
+    Attributes
+    ----------
+    text : str
+        What was written, e.g. ``"10 mmol/L"``.
+    mol_per_l : float
+        Amount concentration [mol/L].
+    kind : str
+        ``amount``, ``molality`` or ``mass`` — which conversion was applied.
+    """
+
+    text: str
+    mol_per_l: float
+    kind: str
+
+
+def parse_concentration(text: str | float | int, *, molar_mass: float | None = None, temperature: float = 25.0) -> Concentration:
+    r"""Read a concentration with its unit and convert it to mol/L.
+
+    Parameters
+    ----------
+    text : str
+        A number and a unit, e.g. ``"10 mmol/L"``, ``"250 mg/L"``, ``"0.9 % w/v"``.
+        A bare number is refused: the unit is always stated.
+    molar_mass : float, optional
+        Molar mass of the substance as added [g/mol]; needed for mass units.
+    temperature : float
+        Working temperature [°C]; sets the water density for mol/kg.
+
+    Returns
+    -------
+    Concentration
+
+    Raises
+    ------
+    UnitError
+        Unreadable text, a missing unit, a unit of the wrong kind, or a mass
+        unit without a molar mass. The message lists the allowed units.
+
+    Examples
+    --------
+    >>> parse_concentration("10 mmol/L").mol_per_l
+    0.01
+    >>> round(parse_concentration("0.9 % w/v", molar_mass=58.44).mol_per_l, 4)
+    0.154
+    """
+    if isinstance(text, bool) or isinstance(text, (int, float)):
+        raise UnitError(f"needs a unit: write e.g. '{text} mmol/L' (allowed: {ALLOWED_UNITS})")
+    if not isinstance(text, str) or not text.strip():
+        raise UnitError(f"must be a number with a unit such as '10 mmol/L' (allowed: {ALLOWED_UNITS})")
+    raw = text.strip()
+    spec = _WV.sub(" percent_weight_per_volume", raw)
+    ureg = _registry()
+    try:
+        q = ureg.Quantity(spec)
+    except Exception:  # pint raises many kinds of errors on bad text
+        raise UnitError(f"cannot read {raw!r} as a number with a unit (allowed: {ALLOWED_UNITS})") from None
+    magnitude = q.magnitude
+    if not isinstance(magnitude, (int, float)) or isinstance(magnitude, bool):
+        raise UnitError(f"cannot read {raw!r} as a number with a unit (allowed: {ALLOWED_UNITS})")
+    if not math.isfinite(magnitude):
+        raise UnitError(f"{raw!r} is not a finite number")
+    if magnitude < 0:
+        raise UnitError(f"{raw!r} is negative; a concentration is 0 or more")
+    if q.dimensionless:
+        raise UnitError(f"{raw!r} has no unit (allowed: {ALLOWED_UNITS})")
+    dims = q.dimensionality
+    try:
+        if dims == ureg.mol.dimensionality / ureg.liter.dimensionality:
+            return Concentration(raw, _tidy(q.to("mol/L").magnitude), "amount")
+        if dims == ureg.mol.dimensionality / ureg.kg.dimensionality:
+            rho = float(water_density(temperature)) / 1000.0  # kg/L
+            return Concentration(raw, _tidy(q.to("mol/kg").magnitude * rho), "molality")
+        if dims == ureg.gram.dimensionality / ureg.liter.dimensionality:
+            if molar_mass is None:
+                raise UnitError(f"{raw!r} is a mass concentration: state the molar mass (g/mol) to convert it")
+            if not (math.isfinite(molar_mass) and molar_mass > 0):
+                raise UnitError(f"molar mass must be a positive number of g/mol; got {molar_mass!r}")
+            return Concentration(raw, _tidy(q.to("g/L").magnitude / molar_mass), "mass")
+    except UnitError:
+        raise
+    except Exception:
+        pass
+    raise UnitError(f"{raw!r} is not a concentration (allowed: {ALLOWED_UNITS})")

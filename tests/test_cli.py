@@ -1,0 +1,81 @@
+"""The command line, run as a real process (python -m dossier)."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import pytest
+
+
+def run(*args: str) -> subprocess.CompletedProcess[str]:
+    return subprocess.run([sys.executable, "-m", "dossier", *args], capture_output=True, text=True, timeout=120)
+
+
+def test_solve_prints_both_scales_and_the_shortcuts() -> None:
+    r = run("solve", "--pka", "4.756", "--conc", "10 mmol/L")
+    assert r.returncode == 0, r.stderr
+    assert "exact pH, activity scale" in r.stdout
+    assert "exact pH, concentration scale" in r.stdout
+    assert "weak-acid-square-root" in r.stdout
+    assert "3.3871" in r.stdout  # exact pH of 0.01 mol/L acetic acid, pKa 4.756, 25 °C
+
+
+def test_solve_json_for_a_polyprotic_ampholyte() -> None:
+    r = run("solve", "--pka", "2.148", "--pka", "7.198", "--pka", "12.35", "--conc", "0.1 mol/L", "--form", "1", "--json")
+    assert r.returncode == 0, r.stderr
+    data = json.loads(r.stdout)
+    assert data["ph"] == pytest.approx(4.688, abs=0.001)
+    assert [s["id"] for s in data["shortcuts"]] == ["ampholyte-mean"]
+    assert data["shortcuts"][0]["error"] == pytest.approx(4.673 - data["ph"], abs=1e-12)
+
+
+def test_solve_with_temperature_and_activity() -> None:
+    r = run("solve", "--pka", "8.072", "--charge", "1", "--dh", "47.45", "--conc", "50 mmol/L",
+            "--strong-acid", "25 mmol/L", "--temperature", "37", "--activity", "davies", "--json")
+    assert r.returncode == 0, r.stderr
+    data = json.loads(r.stdout)
+    assert data["temperature"] == 37.0
+    assert {s["id"] for s in data["shortcuts"]} == {"ideal-activity", "constants-at-25c"}
+
+
+def test_selected_shortcut_that_does_not_apply_is_reported() -> None:
+    r = run("solve", "--pka", "4.756", "--conc", "1 mmol/L", "--shortcut", "ampholyte-mean", "--json")
+    assert r.returncode == 0
+    assert json.loads(r.stdout)["not_applicable"] == [
+        {"id": "ampholyte-mean", "reason": "the component is not added in an intermediate (amphiprotic) form"}
+    ]
+
+
+@pytest.mark.parametrize(
+    ("args", "message"),
+    [
+        (("--pka", "4.756", "--conc", "-1 mmol/L"), "dossier solve: --conc: '-1 mmol/L' is negative; a concentration is 0 or more"),
+        (("--pka", "4.756", "--conc", "1"), "dossier solve: --conc: '1' has no unit (allowed: mol/L, mmol/L, µmol/L (or umol/L), mol/kg, mg/L or g/L (with a molar mass), % w/v (with a molar mass))"),
+        (("--pka", "7", "--pka", "4", "--conc", "1 mmol/L"), "dossier solve: --pka: values must be ascending (pKa1 ≤ pKa2); got 7 then 4"),
+        (("--pka", "4.756", "--conc", "1 mmol/L", "--temperature", "120"), "dossier solve: --temperature: must be in 0 … 100 °C; got 120"),
+        (("--pka", "4.756", "--conc", "1 mmol/L", "--activity", "pitzer"), "dossier solve: --activity: unknown activity model 'pitzer'; allowed: ideal, debye-huckel, extended-debye-huckel, davies"),
+        (("--pka", "4.756", "--conc", "1 mmol/L", "--form", "3"), "dossier solve: --form: must be an integer in 0 … 1 (protons removed from the fully protonated form); got 3"),
+        (("--pka", "nan", "--conc", "1 mmol/L"), "dossier solve: --pka[0]: must be a finite number in -5 … 20; got nan"),
+        (("--pka", "4.756", "--conc", "250 mg/L"), "dossier solve: --conc: '250 mg/L' is a mass concentration: state the molar mass (g/mol) to convert it"),
+        (("--pka", "4.756", "--conc", "1 mmol/L", "--shortcut", "magic"), "dossier solve: --shortcut: unknown id 'magic'; known: weak-acid-square-root, weak-acid-quadratic, weak-acid-water-corrected, weak-base-square-root, weak-base-quadratic, conjugate-base-square-root, henderson-hasselbalch, ampholyte-mean, first-step-only, ideal-activity, constants-at-25c"),
+    ],
+)
+def test_bad_values_exit_1_with_one_clear_line(args: tuple[str, ...], message: str) -> None:
+    r = run("solve", *args)
+    assert r.returncode == 1
+    assert r.stderr.strip() == message
+    assert "Traceback" not in r.stderr
+
+
+def test_usage_error_exits_2() -> None:
+    r = run("solve", "--pka", "4.756")
+    assert r.returncode == 2
+    assert "the following arguments are required: --conc" in r.stderr
+    assert run("frobnicate").returncode == 2
+
+
+def test_version() -> None:
+    r = run("--version")
+    assert r.returncode == 0 and r.stdout.startswith("ph-dossier ")
