@@ -25,11 +25,8 @@ system:
 	@tools/system-packages runtime
 
 demo: system $(VENV)/.installed
-	@echo "== exact pH and shortcut errors for a few demo solutions =="
-	$(BIN)/dossier solve --pka 4.756 --conc "10 mmol/L"
-	$(BIN)/dossier solve --pka 9.21 --conc "0.1 mmol/L"
-	$(BIN)/dossier solve --pka 2.148 --pka 7.198 --pka 12.35 --conc "50 mmol/L" --form 1 --activity davies
-	$(BIN)/dossier solve --pka 8.072 --charge 1 --dh 47.45 --conc "50 mmol/L" --form base --strong-acid "25 mmol/L" --temperature 37
+	$(BIN)/dossier check methods
+	@for f in methods/*.yaml; do $(BIN)/dossier solve "$$f" || exit 1; done
 
 test: system $(VENV)/.installed-test
 	$(BIN)/python -m pytest

@@ -12,7 +12,12 @@ import os
 import sys
 from collections.abc import Callable, Sequence
 
+from typing import TYPE_CHECKING
+
 from . import __version__
+
+if TYPE_CHECKING:
+    from .inputs.model import Method
 
 __all__ = ["main", "EXIT_OK", "EXIT_INPUT", "EXIT_USAGE", "EXIT_INTERNAL"]
 
@@ -30,19 +35,28 @@ class InputFailure(Exception):
         self.code = code
 
 
+def _console():  # noqa: ANN202 - rich.console.Console, imported lazily
+    """A rich console; wide and without colour when the output is not a terminal."""
+    from rich.console import Console
+
+    return Console() if sys.stdout.isatty() else Console(width=150, no_color=True, highlight=False)
+
+
 # ---------------------------------------------------------------- solve
 def _add_solve(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser(
         "solve",
-        help="exact pH of one solution and the error of each textbook shortcut",
+        help="exact pH and shortcut errors: of a method file's solutions, or of one solution given by options",
         description=(
-            "Solve the exact acid–base equilibrium of one solution given on the command line "
-            "and print the pH on both scales and each applicable shortcut's pH and error."
+            "With a method FILE: for each solution, the exact pH and each claimed shortcut's pH and error. "
+            "Without: solve the one solution given by --pka and --conc (and the options below) and print "
+            "the pH on both scales and every applicable shortcut's pH and error."
         ),
     )
-    p.add_argument("--pka", type=float, action="append", required=True, metavar="P",
+    p.add_argument("file", nargs="?", metavar="FILE", help="a method file")
+    p.add_argument("--pka", type=float, action="append", metavar="P",
                    help="stepwise pKa at 25 °C and zero ionic strength; repeat for a polyprotic acid (ascending)")
-    p.add_argument("--conc", required=True, metavar="TEXT",
+    p.add_argument("--conc", metavar="TEXT",
                    help="total concentration with its unit, e.g. '10 mmol/L', '0.1 mol/kg', '250 mg/L'")
     p.add_argument("--charge", type=int, default=0, metavar="Z",
                    help="charge of the fully protonated form (0 acetic acid, +1 ammonium); default 0")
@@ -75,7 +89,49 @@ def _form_to_removed(form: str, steps: int) -> int:
         raise InputFailure(f"--form: expected 'acid', 'base' or a whole number of protons removed (0 … {steps}); got {form!r}") from None
 
 
+_INLINE_ONLY = ("pka", "conc", "dh", "molar_mass", "strong_acid", "strong_base", "pkw", "shortcut")
+
+
 def _run_solve(args: argparse.Namespace) -> int:
+    if args.file is not None:
+        given = [f"--{name.replace('_', '-')}" for name in _INLINE_ONLY if getattr(args, name)]
+        if given:
+            raise InputFailure(f"give either a method FILE or {', '.join(given)}, not both", EXIT_USAGE)
+        return _solve_file(args)
+    if args.pka is None or args.conc is None:
+        raise InputFailure("give a method FILE, or --pka and --conc for one solution", EXIT_USAGE)
+    return _solve_inline(args)
+
+
+def _load_one(path: str) -> Method:
+    from .inputs.loader import load_paths
+    from .problems import format_problems
+
+    inputs = load_paths([path])
+    if inputs.problems:
+        print(format_problems(list(inputs.problems)), file=sys.stderr)
+    if not inputs.ok or not inputs.methods:
+        raise InputFailure(f"{path}: not solved, the file has errors" if inputs.loads else "")
+    return inputs.methods[0]
+
+
+def _solve_file(args: argparse.Namespace) -> int:
+    from .analysis.pointwise import evaluate_method
+    from .render.terminal import method_points_as_dict, point_table, print_json
+
+    method = _load_one(args.file)
+    results = evaluate_method(method)
+    if args.json:
+        print_json(method_points_as_dict(method, results))
+        return EXIT_OK
+    console = _console()
+    for solution_id, result in results:
+        console.print(point_table(f"{method.id} · {solution_id}", result))
+        console.print()
+    return EXIT_OK
+
+
+def _solve_inline(args: argparse.Namespace) -> int:
     from .analysis.pointwise import evaluate_point
     from .chemistry import CATALOGUE, Component, Protolyte, Solution
     from .chemistry.errors import InputRangeError
@@ -114,10 +170,8 @@ def _run_solve(args: argparse.Namespace) -> int:
     if args.json:
         print_json(point_as_dict(result))
     else:
-        from rich.console import Console
-
         pka = ", ".join(f"{p:g}" for p in args.pka)
-        Console().print(point_table(f"{args.conc}, pKa {pka}, form as added: {args.form}", result))
+        _console().print(point_table(f"{args.conc}, pKa {pka}, form as added: {args.form}", result))
     return EXIT_OK
 
 
@@ -145,6 +199,114 @@ def _option_message(exc: Exception) -> str:
     return text
 
 
+# ---------------------------------------------------------------- check, new, schema, substances
+def _add_check(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("check", help="validate method files and print every problem",
+                       description="Validate method files (or every .yaml/.yml file under folders) and print every problem as path:line:column: field: message.")
+    p.add_argument("paths", nargs="*", default=["methods"], metavar="PATH", help="method files or folders (default: methods)")
+    p.add_argument("--strict", action="store_true", help="treat warnings as errors")
+    p.set_defaults(run=_run_check)
+
+
+def _run_check(args: argparse.Namespace) -> int:
+    from .inputs.loader import load_paths
+    from .problems import Severity, format_problems
+
+    inputs = load_paths(args.paths, strict=args.strict)
+    if inputs.problems:
+        print(format_problems(list(inputs.problems)))
+    errors = sum(p.severity is Severity.ERROR for p in inputs.problems)
+    warnings = len(inputs.problems) - errors
+    files = len(inputs.loads)
+    noun = "file" if files == 1 else "files"
+    if errors:
+        print(f"{files} method {noun} checked: {errors} error(s), {warnings} warning(s)")
+        return EXIT_INPUT
+    if files == 0:
+        print("no method files found")
+        return EXIT_INPUT
+    print(f"{files} method {noun} checked: no errors, {warnings} warning(s)")
+    return EXIT_OK
+
+
+def _method_id(text: str) -> str:
+    import re
+
+    from .inputs.schema import ID_PATTERN, ID_RULE
+
+    if not re.match(ID_PATTERN, text):
+        raise argparse.ArgumentTypeError(f"a method id is {ID_RULE}; got {text!r}")
+    return text
+
+
+def _add_new(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("new", help="write a commented starter method file",
+                       description="Write a commented starter method file that `dossier check` accepts as it stands.")
+    p.add_argument("id", type=_method_id, metavar="ID", help="method id (also the default file name)")
+    p.add_argument("-o", "--output", metavar="FILE", help="where to write (default: ID.yaml; '-' for standard output)")
+    p.add_argument("--title", default=None, help="title of the method (default: the id)")
+    p.add_argument("--force", action="store_true", help="overwrite an existing file")
+    p.set_defaults(run=_run_new)
+
+
+def _run_new(args: argparse.Namespace) -> int:
+    from .inputs.starter import starter_text
+
+    text = starter_text(args.id, args.title or args.id)
+    if args.output == "-":
+        sys.stdout.write(text)
+        return EXIT_OK
+    from pathlib import Path
+
+    out = Path(args.output or f"{args.id}.yaml")
+    if out.exists() and not args.force:
+        raise InputFailure(f"{out} exists; choose another name with -o or add --force")
+    try:
+        out.parent.mkdir(parents=True, exist_ok=True)
+        out.write_text(text, encoding="utf-8")
+    except OSError as exc:
+        raise InputFailure(f"cannot write {out}: {exc.strerror or exc}") from None
+    print(f"wrote {out}; edit it, then run: dossier check {out}")
+    return EXIT_OK
+
+
+def _add_schema(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("schema", help="print the JSON Schema of the method-file format",
+                       description="Print the JSON Schema (draft 2020-12) of the method-file format, for editors that complete and check YAML.")
+    p.set_defaults(run=_run_schema)
+
+
+def _run_schema(args: argparse.Namespace) -> int:
+    import json
+
+    from .inputs.schema import json_schema
+
+    print(json.dumps(json_schema(), indent=2, ensure_ascii=False))
+    return EXIT_OK
+
+
+def _add_substances(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("substances", help="list the bundled substance table with its sources",
+                       description="List the bundled substance table: pKa values (25 °C, I = 0), enthalpies of ionization, each with its source and how it was checked.")
+    p.add_argument("--json", action="store_true", help="print JSON instead of tables")
+    p.set_defaults(run=_run_substances)
+
+
+def _run_substances(args: argparse.Namespace) -> int:
+    from .inputs.substances import load_table
+    from .render.terminal import print_json, substances_as_dict, substances_tables
+
+    table = load_table()
+    if args.json:
+        print_json(substances_as_dict(table))
+        return EXIT_OK
+    console = _console()
+    for t in substances_tables(table):
+        console.print(t)
+        console.print()
+    return EXIT_OK
+
+
 # ---------------------------------------------------------------- entry point
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser with every sub-command."""
@@ -160,7 +322,7 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
-_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_solve]
+_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_schema, _add_substances]
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -9,8 +9,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..chemistry import CATALOGUE, Solution, equilibrium
+from ..inputs.model import Method
 
-__all__ = ["ShortcutPoint", "PointResult", "evaluate_point"]
+__all__ = ["ShortcutPoint", "PointResult", "evaluate_point", "evaluate_method"]
 
 
 @dataclass(frozen=True)
@@ -110,4 +111,16 @@ def evaluate_point(solution: Solution, shortcut_ids: tuple[str, ...] | None = No
         activity=solution.activity,
         shortcuts=tuple(points),
         not_applicable=tuple(skipped),
+    )
+
+
+def evaluate_method(method: Method) -> tuple[tuple[str, PointResult], ...]:
+    """Each solution of a method at nominal inputs, with the shortcuts it claims.
+
+    Returns
+    -------
+    tuple of (solution id, PointResult)
+    """
+    return tuple(
+        (s.id, evaluate_point(s.to_solution(method.conditions), s.shortcuts)) for s in method.solutions
     )

@@ -10,8 +10,10 @@ from rich.console import Console
 from rich.table import Table
 
 from ..analysis.pointwise import PointResult
+from ..inputs.model import Method
+from ..inputs.substances import SubstanceTable
 
-__all__ = ["point_table", "point_as_dict", "print_json"]
+__all__ = ["point_table", "point_as_dict", "method_points_as_dict", "print_json", "substances_tables", "substances_as_dict"]
 
 
 def _signed(x: float, digits: int = 4) -> str:
@@ -45,6 +47,14 @@ def point_as_dict(result: PointResult) -> dict[str, Any]:
     return d
 
 
+def method_points_as_dict(method: Method, results: tuple[tuple[str, PointResult], ...]) -> dict[str, Any]:
+    """``dossier solve FILE --json``: the method's identity and each solution's result."""
+    return {
+        "method": {"id": method.id, "revision": method.revision, "source_sha256": method.source_sha256},
+        "solutions": [{"id": sid, **point_as_dict(r)} for sid, r in results],
+    }
+
+
 def print_json(data: Any, console: Console | None = None) -> None:
     """Print data as indented JSON (UTF-8, keys in order)."""
     text = json.dumps(data, indent=2, ensure_ascii=False)
@@ -52,3 +62,45 @@ def print_json(data: Any, console: Console | None = None) -> None:
         print(text)
     else:
         console.print_json(text) if console.is_terminal else print(text)
+
+
+def substances_tables(table: SubstanceTable) -> list[Table]:
+    """The substance table for people: values, then sources."""
+    values = Table(title="Substance table (pKa at 25 °C and I = 0; ΔH° in kJ/mol, ΔCp° in J/(K·mol))", title_justify="left")
+    for col in ("id", "name", "charge", "step", "pKa", "ΔH°", "ΔCp°", "sources (status)"):
+        values.add_column(col, justify="right" if col in ("charge", "step", "pKa", "ΔH°", "ΔCp°") else "left")
+    for s in table.substances.values():
+        for i, st in enumerate(s.steps, start=1):
+            parts = [f"pKa {st.pka.source} ({st.pka.status})"]
+            if st.enthalpy:
+                parts.append(f"ΔH° {st.enthalpy.source} ({st.enthalpy.status})")
+            if st.heat_capacity:
+                parts.append(f"ΔCp° {st.heat_capacity.source} ({st.heat_capacity.status})")
+            values.add_row(
+                s.id if i == 1 else "",
+                s.name if i == 1 else "",
+                (f"{s.charge:+d}" if s.charge else "0") if i == 1 else "",
+                str(i),
+                f"{st.pka.value:g}",
+                f"{st.enthalpy.value:g}" if st.enthalpy else "—",
+                f"{st.heat_capacity.value:g}" if st.heat_capacity else "—",
+                "; ".join(parts),
+            )
+    sources = Table(title="Sources", title_justify="left")
+    for col in ("key", "kind", "citation", "checked in"):
+        sources.add_column(col)
+    for src in table.sources.values():
+        sources.add_row(src.key, src.kind, src.citation + (f" doi:{src.doi}" if src.doi else ""), src.checked_in)
+    values.caption = "status: confirmed / derived (read in the copy named under 'checked in'), computed (from the source's equation), recalled (from memory, not checked)"
+    values.caption_justify = "left"
+    return [values, sources]
+
+
+def substances_as_dict(table: SubstanceTable) -> dict[str, Any]:
+    """The substance table as JSON-ready data."""
+    return {
+        "format": "ph-dossier-substances/1",
+        "sha256": table.sha256,
+        "sources": {k: asdict(v) for k, v in table.sources.items()},
+        "substances": [asdict(s) for s in table.substances.values()],
+    }

@@ -1,0 +1,360 @@
+"""Load method files: read → YAML with positions → unknown keys → types →
+checks → frozen :class:`~dossier.inputs.model.Method`.
+
+Every problem of every file is collected and returned; nothing here raises
+on bad input and nothing prints.
+"""
+
+from __future__ import annotations
+
+import difflib
+import hashlib
+import os
+import typing
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import annotated_types
+from pydantic import BaseModel, ValidationError
+from pydantic.fields import FieldInfo
+
+from ..problems import Problem, Severity, has_errors
+from .checks import build_method, check_valid_parts, dotted
+from .model import Method
+from .schema import FORMAT, ID_RULE, MethodFile
+from .substances import SubstanceTable, load_table
+from .units import ALLOWED_UNITS
+from .yamlpos import MAX_BYTES, LoadedYaml, YamlError, load_yaml
+
+__all__ = ["MethodLoad", "DossierInputs", "load_method", "load_paths", "find_method_files", "METHOD_SUFFIXES"]
+
+METHOD_SUFFIXES = (".yaml", ".yml")
+
+Loc = tuple[str | int, ...]
+
+
+@dataclass(frozen=True)
+class MethodLoad:
+    """The outcome of loading one file: the method (None on error) and its problems."""
+
+    path: str
+    method: Method | None
+    problems: tuple[Problem, ...]
+
+
+@dataclass(frozen=True)
+class DossierInputs:
+    """Every method file of a dossier, loaded and cross-checked."""
+
+    loads: tuple[MethodLoad, ...]
+    problems: tuple[Problem, ...]
+
+    @property
+    def methods(self) -> tuple[Method, ...]:
+        return tuple(m.method for m in self.loads if m.method is not None)
+
+    @property
+    def ok(self) -> bool:
+        return not has_errors(self.problems)
+
+
+# ---------------------------------------------------------------- schema walking
+def _unwrap(annotation: Any) -> Any:
+    """Strip Optional/Annotated layers down to the model, list or dict type."""
+    while True:
+        origin = typing.get_origin(annotation)
+        if origin is typing.Annotated:
+            annotation = typing.get_args(annotation)[0]
+            continue
+        if origin in (typing.Union, getattr(__import__("types"), "UnionType", None)):
+            args = [a for a in typing.get_args(annotation) if a is not type(None)]
+            models = [a for a in args if isinstance(a, type) and issubclass(a, BaseModel)]
+            if models:
+                annotation = models[0]
+                continue
+            if len(args) == 1:
+                annotation = args[0]
+                continue
+        return annotation
+
+
+def _field_at(loc: Loc) -> FieldInfo | None:
+    """The pydantic field at a location of MethodFile (list indices and dict keys skipped)."""
+    current: Any = MethodFile
+    info: FieldInfo | None = None
+    for part in loc:
+        ann = _unwrap(current)
+        origin = typing.get_origin(ann)
+        if isinstance(ann, type) and issubclass(ann, BaseModel):
+            if not isinstance(part, str) or part not in ann.model_fields:
+                return None
+            info = ann.model_fields[part]
+            current = info.annotation
+        elif origin in (list, tuple):
+            current = typing.get_args(ann)[0]
+        elif origin is dict:
+            current = typing.get_args(ann)[1]
+        else:
+            return info
+    return info
+
+
+def _strip_unknown(data: Any, model: Any, loc: Loc, doc: LoadedYaml, out: list[Problem], path: str) -> Any:
+    """Drop keys the schema does not know, each with a warning (and a suggestion)."""
+    ann = _unwrap(model)
+    origin = typing.get_origin(ann)
+    if isinstance(ann, type) and issubclass(ann, BaseModel) and isinstance(data, dict):
+        cleaned = {}
+        for key, value in data.items():
+            if key in ann.model_fields:
+                cleaned[key] = _strip_unknown(value, ann.model_fields[key].annotation, loc + (key,), doc, out, path)
+            else:
+                pos = doc.keys.get(loc + (key,), doc.where(loc + (key,)))
+                close = difflib.get_close_matches(str(key), list(ann.model_fields), n=1, cutoff=0.7)
+                hint = f"; did you mean {close[0]!r}?" if close else f"; known keys here: {', '.join(ann.model_fields)}"
+                out.append(Problem(path, pos.line, pos.column, dotted(loc + (key,)), f"unknown key {key!r} (ignored){hint}", Severity.WARNING))
+        return cleaned
+    if origin in (list, tuple) and isinstance(data, list):
+        item = typing.get_args(ann)[0]
+        return [_strip_unknown(v, item, loc + (i,), doc, out, path) for i, v in enumerate(data)]
+    if origin is dict and isinstance(data, dict):
+        item = typing.get_args(ann)[1]
+        return {k: _strip_unknown(v, item, loc + (k,), doc, out, path) for k, v in data.items()}
+    return data
+
+
+# ---------------------------------------------------------------- messages
+def _bounds(info: FieldInfo | None) -> tuple[str, str]:
+    """('from 0 to 100', ' °C') style text for a numeric field's range."""
+    if info is None:
+        return "", ""
+    lo = hi = None
+    lo_open = hi_open = False
+    for m in info.metadata:
+        if isinstance(m, annotated_types.Ge):
+            lo = m.ge
+        elif isinstance(m, annotated_types.Gt):
+            lo, lo_open = m.gt, True
+        elif isinstance(m, annotated_types.Le):
+            hi = m.le
+        elif isinstance(m, annotated_types.Lt):
+            hi, hi_open = m.lt, True
+    extra = info.json_schema_extra if isinstance(info.json_schema_extra, dict) else {}
+    unit = f" {extra['unit']}" if "unit" in extra else ""
+    if lo is None and hi is None:
+        return "", unit
+    if lo is None:
+        return (f"below {hi:g}" if hi_open else f"at most {hi:g}"), unit
+    if hi is None:
+        return (f"above {lo:g}" if lo_open else f"at least {lo:g}"), unit
+    if not lo_open and not hi_open:
+        return f"from {lo:g} to {hi:g}", unit
+    low = f"above {lo:g}" if lo_open else f"at least {lo:g}"
+    high = f"below {hi:g}" if hi_open else f"at most {hi:g}"
+    return f"{low} and {high}", unit
+
+
+def _show(value: Any) -> str:
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+_CONCENTRATION_KEYS = {"concentration", "working_range", "tolerance", "strong_acid", "strong_base"}
+
+
+def _is_concentration(loc: Loc) -> bool:
+    return any(part in _CONCENTRATION_KEYS for part in loc[-2:] if isinstance(part, str))
+
+
+def _message(err: dict[str, Any]) -> str:
+    kind = err["type"]
+    loc = tuple(p for p in err["loc"])
+    info = _field_at(loc)
+    value = err.get("input")
+    rng, unit = _bounds(info)
+    is_int = info is not None and _unwrap(info.annotation) is int
+    noun = "a whole number" if is_int else "a number"
+    if kind == "missing":
+        desc = f" ({info.description.rstrip('.')})" if info is not None and info.description else ""
+        return f"required key {loc[-1]!r} is missing{desc}"
+    if kind in ("float_type", "float_parsing", "int_type", "int_parsing", "int_from_float", "finite_number",
+                "greater_than", "greater_than_equal", "less_than", "less_than_equal"):
+        where = f" {rng}{unit}" if rng else ""
+        return f"must be {noun}{where}; got {_show(value)}"
+    if kind == "literal_error":
+        expected = err.get("ctx", {}).get("expected", "")
+        choices = [c.strip().strip("'") for c in expected.replace(" or ", ",").split(",") if c.strip()]
+        hint = ""
+        if isinstance(value, str):
+            close = difflib.get_close_matches(value, choices, n=1, cutoff=0.7)
+            hint = f" (did you mean {close[0]!r}?)" if close else ""
+        if loc == ("format",):
+            return f"must be {FORMAT!r} (the format version this tool reads); got {_show(value)}"
+        return f"must be one of {', '.join(choices)}; got {_show(value)}{hint}"
+    if kind == "string_pattern_mismatch":
+        return f"must be {ID_RULE}; got {_show(value)}"
+    if kind in ("string_type",):
+        if _is_concentration(loc) and isinstance(value, (int, float)) and not isinstance(value, bool):
+            return f"needs a unit: write e.g. '{value} mmol/L' (allowed: {ALLOWED_UNITS})"
+        return f"must be text; got {_show(value)}"
+    if kind == "string_too_short":
+        return "must not be empty"
+    if kind == "string_too_long":
+        return f"is too long (at most {err['ctx']['max_length']} characters)"
+    if kind == "too_short":
+        n = err["ctx"]["min_length"]
+        return f"needs at least {n} entr{'y' if n == 1 else 'ies'}; got {err['ctx']['actual_length']}"
+    if kind == "too_long":
+        n = err["ctx"]["max_length"]
+        return f"allows at most {n} entr{'y' if n == 1 else 'ies'}; got {err['ctx'].get('actual_length', 'more')}"
+    if kind == "list_type":
+        return f"must be a list; got {_show(value)}"
+    if kind in ("model_type", "dict_type", "model_attributes_type"):
+        return f"must be a mapping of keys and values; got {_show(value)}"
+    if kind == "bool_type":
+        return f"must be true or false; got {_show(value)}"
+    if kind == "value_error":
+        return str(err["ctx"]["error"])
+    return err["msg"]  # pragma: no cover - every kind the schema can raise is handled above
+
+
+def _type_problems(exc: ValidationError, doc: LoadedYaml, path: str) -> list[Problem]:
+    out = []
+    for err in exc.errors(include_url=False):
+        loc: Loc = tuple(err["loc"])
+        pos = doc.where(loc[:-1] if err["type"] == "missing" else loc)
+        out.append(Problem(path, pos.line, pos.column, dotted(loc), _message(err)))
+    return out
+
+
+# ---------------------------------------------------------------- files
+def _display(path: Path) -> str:
+    try:
+        rel = os.path.relpath(path)
+    except ValueError:  # another drive (Windows)
+        return str(path)
+    return rel if not rel.startswith("..") else str(path)
+
+
+def load_method(path: str | Path, *, table: SubstanceTable | None = None) -> MethodLoad:
+    """Load and check one method file.
+
+    Parameters
+    ----------
+    path : str or Path
+    table : SubstanceTable, optional
+        Defaults to the bundled table.
+
+    Returns
+    -------
+    MethodLoad
+        The method (None if any error) and every problem found.
+    """
+    p = Path(path)
+    name = _display(p)
+    table = table or load_table()
+    try:
+        size = p.stat().st_size
+        if size > MAX_BYTES:
+            return MethodLoad(name, None, (Problem(name, 1, 1, "", f"file is {size} bytes; the limit is {MAX_BYTES} bytes (1 MiB)"),))
+        raw = p.read_bytes()
+    except OSError as exc:
+        return MethodLoad(name, None, (Problem(name, 0, 0, "", f"cannot read the file: {exc.strerror or exc}"),))
+    return load_method_bytes(raw, name, table=table)
+
+
+def load_method_bytes(raw: bytes, name: str, *, table: SubstanceTable | None = None) -> MethodLoad:
+    """Load and check a method file's content (``name`` is used in messages)."""
+    table = table or load_table()
+    sha = hashlib.sha256(raw).hexdigest()
+    try:
+        doc = load_yaml(raw)
+    except YamlError as exc:
+        return MethodLoad(name, None, (Problem(name, exc.position.line, exc.position.column, "", str(exc)),))
+    problems: list[Problem] = []
+    for loc, pos in doc.duplicates:
+        problems.append(Problem(name, pos.line, pos.column, dotted(loc), f"key {loc[-1]!r} appears twice in the same mapping; the second is ignored"))
+    if not isinstance(doc.data, dict):
+        what = "empty" if doc.data is None else f"a {type(doc.data).__name__}, not a mapping of keys"
+        problems.append(Problem(name, 1, 1, "", f"the file is {what}: a method file starts with 'format: {FORMAT}' (see `dossier new`)"))
+        return MethodLoad(name, None, tuple(problems))
+    data = _strip_unknown(doc.data, MethodFile, (), doc, problems, name)
+    try:
+        mf = MethodFile.model_validate(data)
+    except ValidationError as exc:
+        problems.extend(_type_problems(exc, doc, name))
+        problems.extend(check_valid_parts(name, data, doc, table))
+        return MethodLoad(name, None, tuple(problems))
+    method, more = build_method(name, sha, mf, doc, table)
+    problems.extend(more)
+    if has_errors(problems):
+        method = None
+    return MethodLoad(name, method, tuple(problems))
+
+
+def find_method_files(paths: list[str | Path]) -> tuple[list[Path], list[Problem]]:
+    """Expand folders into the method files they hold (sorted; hidden files skipped)."""
+    files: list[Path] = []
+    problems: list[Problem] = []
+    for given in paths:
+        p = Path(given)
+        if p.is_dir():
+            found = sorted(
+                f for f in p.rglob("*")
+                if f.suffix in METHOD_SUFFIXES and f.is_file() and not any(part.startswith(".") for part in f.relative_to(p).parts)
+            )
+            if not found:
+                problems.append(Problem(_display(p), 0, 0, "", f"no method files ({', '.join(METHOD_SUFFIXES)}) in this folder", Severity.WARNING))
+            files.extend(found)
+        elif p.exists():
+            files.append(p)
+        else:
+            problems.append(Problem(_display(p), 0, 0, "", "no such file or folder"))
+    unique = list(dict.fromkeys(f.resolve() for f in files))
+    return [Path(os.path.relpath(f)) if not os.path.relpath(f).startswith("..") else f for f in unique], problems
+
+
+def load_paths(paths: list[str | Path], *, strict: bool = False, table: SubstanceTable | None = None) -> DossierInputs:
+    """Load every method file under ``paths`` and check them together.
+
+    Parameters
+    ----------
+    paths : list of str or Path
+        Files or folders.
+    strict : bool
+        Turn every warning into an error.
+    table : SubstanceTable, optional
+
+    Returns
+    -------
+    DossierInputs
+    """
+    table = table or load_table()
+    files, problems = find_method_files(paths)
+    loads = [load_method(f, table=table) for f in files]
+    seen: dict[str, str] = {}
+    for ld in loads:
+        problems.extend(ld.problems)
+        if ld.method is None:
+            continue
+        if ld.method.id in seen:
+            pos = _id_position(ld)
+            problems.append(Problem(ld.path, pos[0], pos[1], "method.id", f"method id {ld.method.id!r} is also used by {seen[ld.method.id]}; ids must be unique in a dossier"))
+        else:
+            seen[ld.method.id] = ld.path
+    if strict:
+        problems = [p.as_error() for p in problems]
+    if has_errors(problems):
+        bad = {p.file for p in problems if p.severity is Severity.ERROR}
+        loads = [MethodLoad(ld.path, None if ld.path in bad else ld.method, ld.problems) for ld in loads]
+    return DossierInputs(tuple(loads), tuple(problems))
+
+
+def _id_position(ld: MethodLoad) -> tuple[int, int]:
+    try:
+        doc = load_yaml(Path(ld.path).read_bytes())
+    except (OSError, YamlError):
+        return (0, 0)
+    pos = doc.where(("method", "id"))
+    return (pos.line, pos.column)

@@ -1,0 +1,208 @@
+"""The validated method, as frozen values: what the load stage hands on.
+
+Every number is in the engine's units (mol/L, °C, kJ/mol), every pKa carries
+both the stated value and the converted ones, and every value says where it
+came from (the method file or the substance table, with the source key).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..chemistry import Component, Protolyte, Solution
+
+__all__ = [
+    "PkaValue",
+    "ComponentSpec",
+    "SolutionSpec",
+    "ConditionsSpec",
+    "Criteria",
+    "ReferenceSpec",
+    "Method",
+    "TABLE",
+    "METHOD_FILE",
+]
+
+TABLE = "substance table"
+METHOD_FILE = "method file"
+
+
+@dataclass(frozen=True)
+class PkaValue:
+    """One ionization step of a component.
+
+    Attributes
+    ----------
+    stated : float
+        pKa as the source gives it, at ``stated_temperature`` and ``stated_ionic_strength``.
+    stated_temperature : float
+        [°C].
+    stated_ionic_strength : float
+        [mol/kg]; 0 for a thermodynamic value.
+    thermodynamic : float
+        Converted to I = 0 and 25 °C: what the engine takes.
+    at_working_temperature : float
+        Thermodynamic value at the method's temperature (van 't Hoff).
+    uncertainty : float
+        Standard uncertainty [pKa units].
+    distribution : str
+        ``normal`` or ``rectangular``.
+    enthalpy, heat_capacity : float or None
+        ΔH° [kJ/mol], ΔCp° [J/(K·mol)].
+    origin : str
+        ``method file`` or ``substance table`` (for the value).
+    reference : str
+        Key of the method's reference, or of the table's source.
+    status : str
+        ``stated`` for a method-file value; the table status otherwise.
+    enthalpy_origin : str
+        Where ΔH° came from (``method file``, ``substance table`` or ``none``).
+    """
+
+    stated: float
+    stated_temperature: float
+    stated_ionic_strength: float
+    thermodynamic: float
+    at_working_temperature: float
+    uncertainty: float
+    distribution: str
+    enthalpy: float | None
+    heat_capacity: float | None
+    origin: str
+    reference: str
+    status: str
+    enthalpy_origin: str
+
+
+@dataclass(frozen=True)
+class ComponentSpec:
+    """One substance of a solution, validated and converted.
+
+    Concentrations are in mol/L; ``tolerance`` is the half-width of a
+    rectangular distribution; ``working_range`` is (low, high).
+    """
+
+    substance: str
+    name: str
+    from_table: bool
+    charge: int
+    removed: int
+    form: str
+    compound: str
+    concentration: float
+    concentration_text: str
+    tolerance: float
+    tolerance_text: str
+    working_range: tuple[float, float]
+    working_range_text: tuple[str, str]
+    molar_mass: float | None
+    pka: tuple[PkaValue, ...]
+
+    def protolyte(self) -> Protolyte:
+        """The engine's protolyte (25 °C thermodynamic values, enthalpies)."""
+        dh = tuple(p.enthalpy for p in self.pka)
+        dcp = tuple(p.heat_capacity for p in self.pka)
+        return Protolyte(
+            self.substance,
+            tuple(p.thermodynamic for p in self.pka),
+            charge=self.charge,
+            dh=dh if any(v is not None for v in dh) else None,
+            dcp=dcp if any(v is not None for v in dcp) else None,
+        )
+
+
+@dataclass(frozen=True)
+class ConditionsSpec:
+    """Temperature [°C] with its tolerance, activity model, background ionic strength [mol/kg]."""
+
+    temperature: float
+    temperature_tolerance: float
+    activity: str
+    background: float
+
+
+@dataclass(frozen=True)
+class Criteria:
+    """Acceptance: largest tolerated |error| [pH] and the Monte-Carlo probability."""
+
+    max_ph_error: float
+    probability: float
+
+
+@dataclass(frozen=True)
+class SolutionSpec:
+    """One solution: its components, strong acid/base [mol/L] and claimed shortcuts."""
+
+    id: str
+    description: str
+    components: tuple[ComponentSpec, ...]
+    strong_acid: float
+    strong_base: float
+    shortcuts: tuple[str, ...]
+
+    def to_solution(self, conditions: ConditionsSpec, *, scale: float | np.ndarray = 1.0) -> Solution:
+        """The engine's solution at nominal inputs, optionally diluted or concentrated.
+
+        Parameters
+        ----------
+        conditions : ConditionsSpec
+        scale : float or array
+            Factor applied to every concentration (the whole solution diluted
+            or concentrated together), including strong acid and base.
+        """
+        comps = [Component(c.protolyte(), c.concentration * scale, c.removed) for c in self.components]
+        return Solution(
+            comps,
+            temperature=conditions.temperature,
+            activity=conditions.activity,
+            strong_acid=self.strong_acid * scale,
+            strong_base=self.strong_base * scale,
+            background=conditions.background,
+        )
+
+
+@dataclass(frozen=True)
+class ReferenceSpec:
+    """A reference cited by the method file."""
+
+    key: str
+    citation: str
+    kind: str
+    doi: str | None
+    document: str | None
+
+
+@dataclass(frozen=True)
+class Method:
+    """A validated method file.
+
+    Attributes
+    ----------
+    path : str
+        The file as the user named it.
+    source_sha256 : str
+        SHA-256 of the file's bytes.
+    """
+
+    path: str
+    source_sha256: str
+    id: str
+    title: str
+    revision: str
+    purpose: str
+    prepared_by: str | None
+    reviewed_by: str | None
+    notes: str
+    criteria: Criteria
+    conditions: ConditionsSpec
+    solutions: tuple[SolutionSpec, ...]
+    references: tuple[ReferenceSpec, ...]
+
+    def solution(self, solution_id: str) -> SolutionSpec:
+        """The solution with this id (KeyError if none)."""
+        for s in self.solutions:
+            if s.id == solution_id:
+                return s
+        raise KeyError(solution_id)
