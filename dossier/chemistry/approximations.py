@@ -249,6 +249,11 @@ def _ph_base_sqrt(s: Solution) -> Number:
     return _out(pkw - 0.5 * (pkb - np.log10(c)))
 
 
+def _ph_base_water(s: Solution) -> Number:
+    pkb, c, pkw = _base_parts(s)
+    return _out(pkw + 0.5 * np.log10(10.0**-pkb * c + 10.0**-pkw))
+
+
 def _ph_base_quadratic(s: Solution) -> Number:
     pkb, c, pkw = _base_parts(s)
     kb = 10.0**-pkb
@@ -337,6 +342,13 @@ class Approximation:
         The kind of solution it is meant for, in words.
     reference : str
         Where the formula is published.
+    formula : bool
+        True for a closed-form textbook formula (which also takes
+        concentrations for activities); False for the exact-solution
+        variants (first-step-only, ideal-activity, constants-at-25c), whose
+        error is their one assumption's alone.
+    partials : tuple of (label, pH function)
+        Single-assumption relatives (see :meth:`partial_ph`).
     """
 
     id: str
@@ -347,6 +359,18 @@ class Approximation:
     reference: str
     _why_not: Callable[[Solution], str | None]
     _ph: Callable[[Solution], Number]
+    formula: bool = True
+    partials: tuple[tuple[str, Callable[[Solution], Number]], ...] = ()
+
+    def partial_ph(self, solution: Solution) -> dict[str, Number]:
+        """pH of each single-assumption relative of the shortcut (see ``partials``).
+
+        A shortcut that makes two assumptions (the square-root formulas:
+        no dissociation *and* no water) has one relative per assumption, each
+        making only that one; their errors show whether the shortcut holds
+        only because two errors cancel. Empty for the other shortcuts.
+        """
+        return {label: fn(solution) for label, fn in self.partials}
 
     def why_not(self, solution: Solution) -> str | None:
         """None when the shortcut applies to ``solution``, else the reason in words."""
@@ -411,6 +435,7 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _weak_acid_applies,
             _ph_weak_acid_sqrt,
+            partials=(("dissociation neglected", _ph_weak_acid_water), ("water neglected", _ph_weak_acid_quadratic)),
         ),
         Approximation(
             "weak-acid-quadratic",
@@ -445,6 +470,7 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _base_applies(neutral=True),
             _ph_base_sqrt,
+            partials=(("reaction with water neglected", _ph_base_water), ("water's own OH⁻ neglected", _ph_base_quadratic)),
         ),
         Approximation(
             "weak-base-quadratic",
@@ -469,6 +495,7 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _base_applies(neutral=False),
             _ph_base_sqrt,
+            partials=(("hydrolysis neglected", _ph_base_water), ("water's own OH⁻ neglected", _ph_base_quadratic)),
         ),
         Approximation(
             "henderson-hasselbalch",
@@ -506,6 +533,7 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _first_step_applies,
             _ph_first_step,
+            formula=False,
         ),
         Approximation(
             "ideal-activity",
@@ -516,6 +544,7 @@ CATALOGUE: dict[str, Approximation] = {
             "R. G. Bates, Determination of pH, 2nd ed. (Wiley, 1973)",
             _ideal_applies,
             _ph_ideal,
+            formula=False,
         ),
         Approximation(
             "constants-at-25c",
@@ -526,6 +555,7 @@ CATALOGUE: dict[str, Approximation] = {
             "J. H. van 't Hoff, Études de dynamique chimique (1884); R. N. Goldberg et al., J. Phys. Chem. Ref. Data 31, 231 (2002)",
             _at_25_applies,
             _ph_at_25,
+            formula=False,
         ),
     )
 }

@@ -316,6 +316,16 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
         ctx.warn(loc + ("shortcuts",), "a shortcut is listed twice")
     if any(c is None for c in comps) or acid is None or base is None or unknown:
         return None
+    first = comps[0]
+    for i, comp in enumerate(comps[1:], start=1):
+        ratio_lo = comp.working_range[0] / comp.concentration / (first.working_range[0] / first.concentration)  # type: ignore[union-attr]
+        ratio_hi = comp.working_range[1] / comp.concentration / (first.working_range[1] / first.concentration)  # type: ignore[union-attr]
+        if abs(ratio_lo - 1) > 0.01 or abs(ratio_hi - 1) > 0.01:
+            ctx.warn(
+                loc + ("components", i, "working_range"),
+                "not in proportion to the first component's: the analyses dilute or concentrate the whole solution "
+                "together over the first component's working range",
+            )
     spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(sol.shortcuts)))  # type: ignore[arg-type]
     try:
         engine_solution = spec.to_solution(conditions)
@@ -353,7 +363,7 @@ def check_valid_parts(path: str, data: dict, doc: LoadedYaml, table: SubstanceTa
         c = Conditions.model_validate(data.get("conditions", {}))
     except ValidationError:
         c = Conditions()
-    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength)
+    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
     refs = set()
     raw_refs = data.get("references", {})
     if isinstance(raw_refs, dict):
@@ -390,7 +400,7 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     """
     ctx = _Ctx(path, doc, table)
     c = mf.conditions
-    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength)
+    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
     refs = set(mf.references)
     cited: set[str] = set()
     solutions = _check_solutions(ctx, list(enumerate(mf.solutions)), refs, conditions, cited)

@@ -115,12 +115,13 @@ class ComponentSpec:
 
 @dataclass(frozen=True)
 class ConditionsSpec:
-    """Temperature [°C] with its tolerance, activity model, background ionic strength [mol/kg]."""
+    """Temperature [°C] with its tolerance, activity model, background ionic strength [mol/kg] with its tolerance."""
 
     temperature: float
     temperature_tolerance: float
     activity: str
     background: float
+    background_tolerance: float = 0.0
 
 
 @dataclass(frozen=True)

@@ -104,6 +104,10 @@ class Conditions(_Model):
         0.0, ge=0.0, le=5.0, allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
         description="Ionic strength of an inert 1:1 electrolyte in the solution (e.g. 0.15 for 0.15 mol/kg NaCl).",
     )
+    background_ionic_strength_tolerance: float = Field(
+        0.0, ge=0.0, le=5.0, allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
+        description="Half-width of the allowed background ionic strength (± value), rectangular distribution.",
+    )
 
 
 class PkaIn(_Model):

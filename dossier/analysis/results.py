@@ -1,0 +1,228 @@
+"""Machine-readable results: the ``results.json`` document and CSV tables.
+
+The format (``ph-dossier-results/1``) is documented in docs/results-format.md.
+It echoes the inputs as used (converted pKa values, concentrations in mol/L,
+pKw, the Debye–Hückel A) so that every number can be re-computed.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+from typing import Any
+
+from .. import __version__
+from ..chemistry.activity import BATES_GUGGENHEIM_BA, DAVIES_COEFFICIENT
+from ..chemistry.solver import TOLERANCE
+from ..inputs.substances import load_table
+from .method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
+from .montecarlo import Comparison, Distribution
+from .sensitivity import GumResult
+from .validity import Interval, Sweep
+
+__all__ = ["RESULTS_FORMAT", "results_document", "csv_tables"]
+
+RESULTS_FORMAT = "ph-dossier-results/1"
+
+
+def _intervals(ivs: tuple[Interval, ...]) -> list[list[float]]:
+    return [[iv.low, iv.high] for iv in ivs]
+
+
+def _comparison(c: Comparison) -> dict[str, Any]:
+    return {
+        "gum_interval": list(c.gum_interval),
+        "monte_carlo_interval": list(c.mc_interval),
+        "d_low": c.d_low,
+        "d_high": c.d_high,
+        "numerical_tolerance": c.tolerance,
+        "validated": c.validated,
+    }
+
+
+def _gum(g: GumResult) -> dict[str, Any]:
+    return {
+        "value": g.value,
+        "u_combined": g.u,
+        "sensitivity": {
+            "d_dpka": g.coefficients.d_pka,
+            "d_dlog10_c": g.coefficients.d_log_c,
+            "d_dt_per_k": g.coefficients.d_temperature,
+            "d_di_per_mol_per_kg": g.coefficients.d_ionic_strength,
+        },
+        "inputs": [
+            {"key": c.key, "label": c.label, "unit": c.unit, "u": c.u, "coefficient": c.coefficient, "contribution": c.contribution}
+            for c in g.contributions
+        ],
+    }
+
+
+def _distribution(d: Distribution) -> dict[str, Any]:
+    return {"mean": d.mean, "u": d.u, "coverage_95": list(d.coverage)}
+
+
+def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
+    v = s.validity
+    out: dict[str, Any] = {
+        "id": s.id,
+        "title": s.title,
+        "claimed": s.claimed,
+        "ph": s.ph,
+        "error": s.error,
+        "validity_total_mol_per_l": _intervals(v.concentration_intervals),
+        "validity_total_robust": [iv.robust for iv in v.concentration_intervals],
+        "validity_total_swept_mol_per_l": list(v.concentration_span),
+        "validity_pka": _intervals(v.pka_intervals),
+        "validity_pka_robust": [iv.robust for iv in v.pka_intervals],
+        "validity_pka_step": {"component": v.pka_step[0], "step": v.pka_step[1] + 1},
+        "max_abs_error_working_range": v.max_abs_error,
+        "max_abs_error_at_total_mol_per_l": v.max_abs_error_at,
+        "holds_within_working_range_mol_per_l": [list(p) for p in v.holds_within_working_range],
+    }
+    if s.claimed:
+        mc = sa.monte_carlo
+        out.update(
+            {
+                "verdict": s.verdict.status,  # type: ignore[union-attr]
+                "condition": s.verdict.condition,  # type: ignore[union-attr]
+                "reasons": list(s.verdict.reasons),  # type: ignore[union-attr]
+                "justification": s.justification,
+                "gum": _gum(s.gum),  # type: ignore[arg-type]
+                "monte_carlo": {
+                    "draws": mc.draws,
+                    "seed": mc.seed,
+                    "spawn_key": list(mc.spawn_key),
+                    "error_mean": mc.errors[s.id].mean,
+                    "error_u": mc.errors[s.id].u,
+                    "error_coverage": list(mc.errors[s.id].coverage),
+                    "p_exceed": mc.p_exceed[s.id],
+                },
+                "gum_vs_monte_carlo": _comparison(s.comparison),  # type: ignore[arg-type]
+            }
+        )
+    return out
+
+
+def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
+    spec = sa.spec
+    c = analysis.method.conditions
+    return {
+        "id": spec.id,
+        "description": spec.description,
+        "conditions": {
+            "temperature_c": c.temperature,
+            "temperature_tolerance_c": c.temperature_tolerance,
+            "pkw": sa.exact.pkw,
+            "activity": c.activity,
+            "davies_coefficient": DAVIES_COEFFICIENT,
+            "bates_guggenheim_ba": BATES_GUGGENHEIM_BA,
+            "debye_huckel_a": sa.exact.debye_huckel_a,
+            "background_ionic_strength": c.background,
+            "background_ionic_strength_tolerance": c.background_tolerance,
+        },
+        "components": [
+            {
+                "substance": comp.substance,
+                "name": comp.name,
+                "compound": comp.compound,
+                "from_table": comp.from_table,
+                "form": comp.form,
+                "charge": comp.charge,
+                "removed": comp.removed,
+                "pka": [p.at_working_temperature for p in comp.pka],
+                "total_mol_per_l": comp.concentration,
+                "total_as_written": comp.concentration_text,
+                "tolerance_mol_per_l": comp.tolerance,
+                "working_range_mol_per_l": list(comp.working_range),
+                "molar_mass_g_per_mol": comp.molar_mass,
+                "pka_details": [
+                    {
+                        "step": j + 1,
+                        "stated": p.stated,
+                        "stated_temperature_c": p.stated_temperature,
+                        "stated_ionic_strength": p.stated_ionic_strength,
+                        "thermodynamic_25c": p.thermodynamic,
+                        "at_working_temperature": p.at_working_temperature,
+                        "uncertainty": p.uncertainty,
+                        "distribution": p.distribution,
+                        "enthalpy_kj_per_mol": p.enthalpy,
+                        "heat_capacity_j_per_k_mol": p.heat_capacity,
+                        "origin": p.origin,
+                        "reference": p.reference,
+                        "status": p.status,
+                        "enthalpy_origin": p.enthalpy_origin,
+                    }
+                    for j, p in enumerate(comp.pka)
+                ],
+            }
+            for comp in spec.components
+        ],
+        "strong_acid_mol_per_l": spec.strong_acid,
+        "strong_base_mol_per_l": spec.strong_base,
+        "exact": {
+            "ph": sa.exact.ph,
+            "ph_conc": sa.exact.ph_conc,
+            "ionic_strength": sa.exact.ionic_strength,
+            "gum": _gum(sa.gum),
+            "monte_carlo": _distribution(sa.monte_carlo.exact),
+            "gum_vs_monte_carlo": _comparison(sa.comparison),
+        },
+        "approximations": [_shortcut(sa, s) for s in sa.shortcuts],
+        "appendix": [_shortcut(sa, s) for s in sa.appendix],
+    }
+
+
+def results_document(analysis: MethodAnalysis) -> dict[str, Any]:
+    """The ``results.json`` document of one method (see docs/results-format.md)."""
+    m = analysis.method
+    return {
+        "format": RESULTS_FORMAT,
+        "tool": {"name": "ph-dossier", "version": __version__},
+        "method": {"id": m.id, "title": m.title, "revision": m.revision, "source_sha256": m.source_sha256},
+        "substance_table_sha256": load_table().sha256,
+        "criteria": {"max_ph_error": m.criteria.max_ph_error, "probability": m.criteria.probability},
+        "settings": {
+            "solver_tolerance_ln_h": TOLERANCE,
+            "monte_carlo_draws": analysis.settings.draws,
+            "monte_carlo_seed": analysis.settings.seed,
+            "monte_carlo_generator": "numpy PCG64, SeedSequence(seed, spawn_key=(solution index,))",
+        },
+        "solutions": [_solution(sa, analysis) for sa in analysis.solutions],
+    }
+
+
+def _csv(header: list[str], rows: list[list[Any]]) -> str:
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(header)
+    for r in rows:
+        w.writerow([repr(x) if isinstance(x, float) else x for x in r])
+    return buf.getvalue()
+
+
+def _sweep_rows(sweep: Sweep) -> tuple[list[str], list[list[Any]]]:
+    names = list(sweep.parts)
+    rows = [[float(sweep.x[i]), float(sweep.exact_ph[i]), float(sweep.error[i])] + [float(sweep.parts[n][i]) for n in names] for i in range(len(sweep.x))]
+    return names, rows
+
+
+def csv_tables(analysis: MethodAnalysis) -> dict[str, str]:
+    """CSV tables of a method: validity intervals, sensitivities, and each sweep."""
+    out: dict[str, str] = {}
+    validity_rows = []
+    sens_rows = []
+    for sa in analysis.solutions:
+        sens_rows += [[sa.spec.id, "exact pH", c.key, c.label, c.unit, c.u, c.coefficient, c.contribution] for c in sa.gum.contributions]
+        for s in sa.shortcuts + sa.appendix:
+            v = s.validity
+            for kind, ivs in (("total_mol_per_l", v.concentration_intervals), ("pka", v.pka_intervals)):
+                validity_rows += [[sa.spec.id, s.id, "claimed" if s.claimed else "appendix", kind, iv.low, iv.high, iv.robust] for iv in ivs]
+            if s.claimed and s.gum is not None:
+                sens_rows += [[sa.spec.id, f"error of {s.id}", c.key, c.label, c.unit, c.u, c.coefficient, c.contribution] for c in s.gum.contributions]
+                names, rows = _sweep_rows(v.concentration_sweep)
+                out[f"{sa.spec.id}-{s.id}-concentration-sweep.csv"] = _csv(["total_mol_per_l", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
+                names, rows = _sweep_rows(v.pka_sweep)
+                out[f"{sa.spec.id}-{s.id}-pka-sweep.csv"] = _csv(["pka", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
+    out["validity.csv"] = _csv(["solution", "shortcut", "role", "range_of", "low", "high", "robust"], validity_rows)
+    out["sensitivity.csv"] = _csv(["solution", "quantity", "input", "label", "unit", "u", "coefficient", "contribution"], sens_rows)
+    return dict(sorted(out.items()))

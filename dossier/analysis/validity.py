@@ -1,0 +1,368 @@
+r"""Validity ranges of a shortcut: where |shortcut pH − exact pH| ≤ the limit.
+
+Concentration: the whole solution is diluted or concentrated together (every
+total, and any strong acid or base, times one factor); the range is stated
+as the first component's total, swept over 1e-10 … 10 mol/L (less where
+another component would pass 10 mol/L). pKa: the pKa of the step the shortcut
+uses (with the other steps of that substance shifted alike) over −2 … 16, at
+the nominal concentration.
+
+The error is evaluated on a grid and every crossing of ±limit is then found
+by root-finding (Brent's method) on the error itself: to 0.1 % in
+concentration and 0.001 in pKa. Because the assumptions of a shortcut can
+err in opposite directions, the set can be several intervals; each is
+marked *robust* when every single assumption's own error (see
+:meth:`~dossier.chemistry.approximations.Approximation.partial_ph`, and the
+activity correction when the method uses an activity model) also stays within
+the limit over it, and *not robust* when it holds only because errors cancel.
+
+References
+----------
+.. [1] R. P. Brent, Algorithms for Minimization without Derivatives
+   (Prentice-Hall, 1973), ch. 4 (scipy.optimize.brentq).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+
+import numpy as np
+from numpy.typing import NDArray
+from scipy.optimize import brentq, minimize_scalar
+
+from ..chemistry import CATALOGUE, Approximation, Solution, equilibrium
+from ..chemistry.approximations import _hh_pair
+from ..inputs.model import ConditionsSpec, SolutionSpec
+from .batch import TOTAL_MAX, Variation, solution_for
+
+__all__ = [
+    "Interval",
+    "Sweep",
+    "ValidityResult",
+    "validity",
+    "error_at",
+    "key_step",
+    "pka_shifts",
+    "concentration_scales",
+    "CONCENTRATION_SPAN",
+    "PKA_SPAN",
+    "CONCENTRATION_POINTS",
+    "PKA_POINTS",
+]
+
+CONCENTRATION_SPAN = (1e-10, 10.0)
+"""Sweep of the first component's total [mol/L]."""
+PKA_SPAN = (-2.0, 16.0)
+"""Sweep of the key step's pKa."""
+CONCENTRATION_POINTS = 221
+"""Grid points of the concentration sweep (20 per decade)."""
+PKA_POINTS = 181
+"""Grid points of the pKa sweep (0.1 apart)."""
+_REL_TOL_LOG = np.log10(1.001)  # 0.1 % in concentration, on log10
+_PKA_TOL = 1e-3
+
+
+@dataclass(frozen=True)
+class Interval:
+    """A range where the shortcut holds.
+
+    Attributes
+    ----------
+    low, high : float
+        Ends [mol/L, or pKa units].
+    robust : bool
+        False when it holds only because errors of opposite sign cancel.
+    low_is_sweep_end, high_is_sweep_end : bool
+        True when the end is the end of the sweep, not a crossing of the limit.
+    """
+
+    low: float
+    high: float
+    robust: bool
+    low_is_sweep_end: bool
+    high_is_sweep_end: bool
+
+
+@dataclass(frozen=True)
+class Sweep:
+    """A sweep on its grid: the varied quantity, the exact pH and the error."""
+
+    x: NDArray[np.float64]
+    exact_ph: NDArray[np.float64]
+    error: NDArray[np.float64]
+    parts: dict[str, NDArray[np.float64]]
+
+
+@dataclass(frozen=True)
+class ValidityResult:
+    """Where one shortcut holds for one solution.
+
+    Attributes
+    ----------
+    shortcut : str
+    limit : float
+        The acceptance limit [pH].
+    nominal_error : float
+        Error at nominal inputs [pH].
+    concentration_intervals : tuple of Interval
+        First component's total [mol/L].
+    concentration_sweep : Sweep
+    concentration_span : (float, float)
+        The swept range of the first component's total [mol/L].
+    pka_intervals : tuple of Interval
+    pka_sweep : Sweep
+    pka_step : (int, int)
+        (component, step) whose pKa is swept (0-based).
+    working_range : (float, float)
+        First component's working range [mol/L].
+    max_abs_error : float
+        Largest |error| over the working range [pH].
+    max_abs_error_at : float
+        Where it occurs (first component's total) [mol/L].
+    holds_within_working_range : tuple of (float, float)
+        The parts of the working range where the shortcut holds.
+    """
+
+    shortcut: str
+    limit: float
+    nominal_error: float
+    concentration_intervals: tuple[Interval, ...]
+    concentration_sweep: Sweep
+    concentration_span: tuple[float, float]
+    pka_intervals: tuple[Interval, ...]
+    pka_sweep: Sweep
+    pka_step: tuple[int, int]
+    working_range: tuple[float, float]
+    max_abs_error: float
+    max_abs_error_at: float
+    holds_within_working_range: tuple[tuple[float, float], ...]
+
+    @property
+    def holds_on_whole_working_range(self) -> bool:
+        lo, hi = self.working_range
+        return len(self.holds_within_working_range) == 1 and np.isclose(self.holds_within_working_range[0][0], lo) and np.isclose(self.holds_within_working_range[0][1], hi)
+
+
+# ---------------------------------------------------------------- errors on a batch
+def _errors(approx: Approximation, solution: Solution) -> tuple[NDArray[np.float64], NDArray[np.float64], dict[str, NDArray[np.float64]]]:
+    """(exact pH, shortcut error, errors of the single assumptions) for a batch."""
+    exact = equilibrium(solution)
+    err = np.asarray(approx.ph(solution), dtype=np.float64) - np.asarray(exact.ph)
+    parts: dict[str, NDArray[np.float64]] = {}
+    if approx.formula:
+        ideal = exact if solution.activity == "ideal" else equilibrium(replace(solution, activity="ideal"))
+        partial = approx.partial_ph(solution)
+        if partial:
+            for label, ph in partial.items():
+                parts[label] = np.asarray(ph, dtype=np.float64) - np.asarray(ideal.ph)
+        elif solution.activity != "ideal":
+            parts["formula"] = np.asarray(approx.ph(solution), dtype=np.float64) - np.asarray(ideal.ph)
+        if solution.activity != "ideal":
+            parts["activity neglected"] = np.asarray(ideal.ph) - np.asarray(exact.ph)
+    return np.broadcast_to(np.asarray(exact.ph, dtype=np.float64), err.shape).copy(), err, parts
+
+
+def _worst_part(approx: Approximation, solution: Solution) -> float:
+    """Largest |error| of the single assumptions at one point (0 when there are none)."""
+    _, _, parts = _errors(approx, solution)
+    return float(max((abs(float(v)) for v in parts.values()), default=0.0))
+
+
+def error_at(approx: Approximation, spec: SolutionSpec, conditions: ConditionsSpec, variation: Variation | None = None) -> float | NDArray[np.float64]:
+    """The shortcut's error for ``spec`` under a variation (vectorized)."""
+    sol = solution_for(spec, conditions, variation)
+    return approx.error(sol)
+
+
+def key_step(approx_id: str, spec: SolutionSpec) -> tuple[int, int]:
+    """(component, step) of the pKa a shortcut uses: the one its pKa sweep varies."""
+    c0 = spec.components[0]
+    n = len(c0.pka)
+    if approx_id in ("weak-base-square-root", "weak-base-quadratic", "conjugate-base-square-root"):
+        return (0, n - 1)
+    if approx_id == "first-step-only":
+        return (0, 0 if c0.removed == 0 else n - 1)
+    if approx_id == "ampholyte-mean":
+        return (0, c0.removed - 1)
+    if approx_id == "henderson-hasselbalch":
+        pair = _hh_pair(spec.to_solution(ConditionsSpec(25.0, 0.0, "ideal", 0.0)))
+        if pair is not None:
+            return (0, pair[2] - 1)
+        return (0, c0.removed if spec.strong_base > 0 else c0.removed - 1)
+    return (0, 0)
+
+
+def pka_shifts(approx_id: str, spec: SolutionSpec, n: int) -> tuple[NDArray[np.float64], float, list[int]]:
+    """Shifts that sweep the key step's pKa over −2 … 16 (every pKa of the
+    substance kept within the engine's −5 … 20); the key pKa; the components
+    of that substance."""
+    k, j = key_step(approx_id, spec)
+    pks = [p.thermodynamic for p in spec.components[k].pka]
+    key = pks[j]
+    lo = max(PKA_SPAN[0] - key, -5.0 - min(pks))
+    hi = min(PKA_SPAN[1] - key, 20.0 - max(pks))
+    same = [i for i, c in enumerate(spec.components) if c.substance == spec.components[k].substance]
+    return np.linspace(lo, hi, n), key, same
+
+
+def concentration_scales(spec: SolutionSpec, n: int) -> NDArray[np.float64]:
+    """Factors that sweep the first component's total over 1e-10 … 10 mol/L
+    (less where another component would pass 10 mol/L)."""
+    c0 = spec.components[0].concentration
+    biggest = max(c.concentration for c in spec.components)
+    return np.geomspace(CONCENTRATION_SPAN[0] / c0, min(CONCENTRATION_SPAN[1] / c0, TOTAL_MAX / biggest), n)
+
+
+# ---------------------------------------------------------------- intervals
+def _intervals(
+    x: NDArray[np.float64],
+    err: NDArray[np.float64],
+    parts: dict[str, NDArray[np.float64]],
+    limit: float,
+    refine,  # noqa: ANN001 - callable(a, b, f_a, f_b) -> where |error| crosses the limit
+    refine_parts,  # noqa: ANN001 - callable(a, b, g_a, g_b) -> where max |part| crosses the limit
+) -> tuple[Interval, ...]:
+    """Runs of grid points with |error| ≤ limit, ends refined; each run split
+    where it changes between robust and not robust."""
+    inside = np.abs(err) <= limit
+    worst_part = np.max(np.abs(np.array(list(parts.values()))), axis=0) if parts else np.zeros_like(err)
+    robust = worst_part <= limit
+    out = []
+    i = 0
+    n = len(x)
+    while i < n:
+        if not inside[i]:
+            i += 1
+            continue
+        j = i
+        while j + 1 < n and inside[j + 1]:
+            j += 1
+        low_end, high_end = i == 0, j == n - 1
+        low = x[0] if low_end else refine(x[i - 1], x[i], err[i - 1], err[i])
+        high = x[-1] if high_end else refine(x[j], x[j + 1], err[j], err[j + 1])
+        # split [i, j] where robustness changes
+        start, start_x, start_is_end = i, low, low_end
+        for k in range(i + 1, j + 1):
+            if robust[k] != robust[k - 1]:
+                cut = refine_parts(x[k - 1], x[k], worst_part[k - 1], worst_part[k])
+                out.append(Interval(float(start_x), float(cut), bool(robust[start]), start_is_end, False))
+                start, start_x, start_is_end = k, cut, False
+        out.append(Interval(float(start_x), float(high), bool(robust[start]), start_is_end, high_end))
+        i = j + 1
+    return tuple(out)
+
+
+def _crossing(f, a: float, b: float, fa: float, fb: float, limit: float, tol: float) -> float:  # noqa: ANN001
+    """Root of |f| = limit between a (fa) and b (fb), one inside and one outside."""
+    outside = fb if abs(fb) > limit else fa
+    target = limit if outside > 0 else -limit
+    try:
+        return float(brentq(lambda v: f(v) - target, a, b, xtol=tol, rtol=4 * np.finfo(float).eps))
+    except ValueError:  # the error is not monotone across the cell: keep the grid point inside
+        return a if abs(fa) <= limit else b
+
+
+def _working_parts(intervals: tuple[Interval, ...], lo: float, hi: float) -> tuple[tuple[float, float], ...]:
+    out = []
+    for iv in intervals:
+        a, b = max(iv.low, lo), min(iv.high, hi)
+        if a <= b * (1 + 1e-12):
+            out.append((a, min(b, hi)))
+    return tuple(out)
+
+
+def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, limit: float) -> ValidityResult:
+    """Validity ranges of one shortcut for one solution.
+
+    Parameters
+    ----------
+    approx_id : str
+        A catalogue id that applies to the solution.
+    spec : SolutionSpec
+    conditions : ConditionsSpec
+    limit : float
+        Largest tolerated |error| [pH].
+
+    Returns
+    -------
+    ValidityResult
+
+    Examples
+    --------
+    Benzoic acid (pKa 4.202), square-root formula, limit 0.05 pH: holds from
+    about 1.2 mmol/L up (and, by cancellation only, in a sliver near 1e-10).
+
+    >>> from dossier.inputs.loader import load_method
+    >>> m = load_method("methods/benzoate-extract.yaml").method
+    >>> v = validity("weak-acid-square-root", m.solutions[0], m.conditions, 0.05)
+    >>> [(round(i.low * 1e3, 2), i.robust) for i in v.concentration_intervals][1]  # mmol/L
+    (1.22, True)
+    """
+    approx = CATALOGUE[approx_id]
+    c0 = spec.components[0].concentration
+    scales = concentration_scales(spec, CONCENTRATION_POINTS)
+    exact, err, parts = _errors(approx, solution_for(spec, conditions, Variation(scale=scales)))
+    x_conc = scales * c0
+
+    def err_conc(log_x: float) -> float:
+        return float(error_at(approx, spec, conditions, Variation(scale=10.0**log_x / c0)))
+
+    def refine_conc(a: float, b: float, fa: float, fb: float) -> float:
+        return 10.0 ** _crossing(err_conc, np.log10(a), np.log10(b), fa, fb, limit, _REL_TOL_LOG)
+
+    def parts_conc(log_x: float) -> float:
+        return _worst_part(approx, solution_for(spec, conditions, Variation(scale=10.0**log_x / c0)))
+
+    def refine_parts_conc(a: float, b: float, ga: float, gb: float) -> float:
+        return 10.0 ** _crossing(parts_conc, np.log10(a), np.log10(b), ga, gb, limit, _REL_TOL_LOG)
+
+    conc_iv = _intervals(x_conc, err, parts, limit, refine_conc, refine_parts_conc)
+
+    # pKa sweep of the key step (all steps of that substance shifted alike)
+    k, j = key_step(approx_id, spec)
+    shifts, key, same = pka_shifts(approx_id, spec, PKA_POINTS)
+    exact_p, err_p, parts_p = _errors(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: shifts for i in same})))
+
+    def err_pka(value: float) -> float:
+        return float(error_at(approx, spec, conditions, Variation(pka_shift_all={i: value - key for i in same})))
+
+    def refine_pka(a: float, b: float, fa: float, fb: float) -> float:
+        return _crossing(err_pka, a, b, fa, fb, limit, _PKA_TOL)
+
+    def parts_pka(value: float) -> float:
+        return _worst_part(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: value - key for i in same})))
+
+    def refine_parts_pka(a: float, b: float, ga: float, gb: float) -> float:
+        return _crossing(parts_pka, a, b, ga, gb, limit, _PKA_TOL)
+
+    pka_iv = _intervals(key + shifts, err_p, parts_p, limit, refine_pka, refine_parts_pka)
+
+    # largest |error| over the working range
+    lo, hi = spec.components[0].working_range
+    in_range = (x_conc >= lo) & (x_conc <= hi)
+    cands = [(abs(err_conc(np.log10(lo))), lo), (abs(err_conc(np.log10(hi))), hi)]
+    if in_range.any():
+        idx = int(np.argmax(np.where(in_range, np.abs(err), -np.inf)))
+        a = np.log10(x_conc[max(idx - 1, 0)])
+        b = np.log10(x_conc[min(idx + 1, len(x_conc) - 1)])
+        a, b = max(a, np.log10(lo)), min(b, np.log10(hi))
+        if b > a:
+            res = minimize_scalar(lambda v: -abs(err_conc(v)), bounds=(a, b), method="bounded", options={"xatol": _REL_TOL_LOG})
+            cands.append((-float(res.fun), 10.0 ** float(res.x)))
+        cands.append((float(abs(err[idx])), float(x_conc[idx])))
+    worst, where = max(cands)
+    return ValidityResult(
+        shortcut=approx_id,
+        limit=limit,
+        nominal_error=err_conc(np.log10(c0)),
+        concentration_intervals=conc_iv,
+        concentration_sweep=Sweep(x_conc, exact, err, parts),
+        concentration_span=(float(x_conc[0]), float(x_conc[-1])),
+        pka_intervals=pka_iv,
+        pka_sweep=Sweep(key + shifts, exact_p, err_p, parts_p),
+        pka_step=(k, j),
+        working_range=(lo, hi),
+        max_abs_error=float(worst),
+        max_abs_error_at=float(where),
+        holds_within_working_range=_working_parts(conc_iv, lo, hi),
+    )

@@ -1,0 +1,143 @@
+"""Verdicts on each claimed shortcut, and the drafted justification paragraph.
+
+Rules (per solution and shortcut, with L the acceptance limit and P the
+required probability):
+
+``pass``
+    |error| ≤ L over the whole working range at nominal inputs, and
+    P(|error| > L) ≤ 1 − P under the stated uncertainties (Monte Carlo).
+``fail``
+    |error| > L at the nominal composition.
+``conditional``
+    holds at the nominal composition, but only on part of the working range,
+    or only at nominal inputs (P(|error| > L) > 1 − P); the condition is
+    stated in words.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ..chemistry import CATALOGUE
+from ..inputs.model import Method, SolutionSpec
+from .montecarlo import McResult
+from .validity import ValidityResult
+
+__all__ = ["Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_concentration"]
+
+PASS, FAIL, CONDITIONAL = "pass", "fail", "conditional"
+
+
+@dataclass(frozen=True)
+class Verdict:
+    """The outcome for one shortcut of one solution.
+
+    Attributes
+    ----------
+    status : str
+        ``pass``, ``fail`` or ``conditional``.
+    condition : str
+        For ``conditional``: the condition under which the shortcut holds.
+    reasons : tuple of str
+        Why, in words, each with its numbers.
+    """
+
+    status: str
+    condition: str
+    reasons: tuple[str, ...]
+
+
+def format_concentration(c: float) -> str:
+    """A concentration in the unit that reads best (mol/L, mmol/L, µmol/L, nmol/L)."""
+    for factor, unit in ((1.0, "mol/L"), (1e-3, "mmol/L"), (1e-6, "µmol/L"), (1e-9, "nmol/L")):
+        if c >= factor * 0.9995:
+            return f"{c / factor:.3g} {unit}"
+    return f"{c:.3g} mol/L"
+
+
+def _range(a: float, b: float) -> str:
+    return f"{format_concentration(a)} – {format_concentration(b)}"
+
+
+def _pct(p: float) -> str:
+    """0 %, 0.0006 %, 4.5 %, 100.0 %."""
+    if p == 0.0:
+        return "0 %"
+    if p * 100 >= 0.1:
+        return f"{p * 100:.1f} %"
+    return f"{p * 100:.1g} %"
+
+
+def verdict(v: ValidityResult, mc: McResult, probability: float) -> Verdict:
+    """Apply the rules of the module docstring."""
+    limit = v.limit
+    p = mc.p_exceed[v.shortcut]
+    allowed = 1.0 - probability
+    lo, hi = v.working_range
+    reasons = [
+        f"error at the nominal composition {v.nominal_error:+.3f} pH (limit ±{limit:g})",
+        f"largest |error| over the working range {_range(lo, hi)}: {v.max_abs_error:.3f} pH at {format_concentration(v.max_abs_error_at)}",
+        f"P(|error| > {limit:g}) = {_pct(p)} under the stated uncertainties (allowed {_pct(allowed)}; {mc.draws:,} Monte-Carlo draws)",
+    ]
+    if abs(v.nominal_error) > limit:
+        return Verdict(FAIL, "", tuple(reasons))
+    whole = v.max_abs_error <= limit
+    conditions = []
+    if not whole:
+        parts = " and ".join(_range(a, b) for a, b in v.holds_within_working_range) or "no part of it"
+        conditions.append(f"holds only for {parts} of the working range {_range(lo, hi)}")
+    if p > allowed:
+        conditions.append(f"holds only at nominal inputs: with the stated uncertainties P(|error| > {limit:g}) = {_pct(p)}, above the allowed {_pct(allowed)}")
+    if not conditions:
+        return Verdict(PASS, "", tuple(reasons))
+    return Verdict(CONDITIONAL, "; ".join(conditions), tuple(reasons))
+
+
+def _composition(spec: SolutionSpec) -> str:
+    parts = [f"{c.compound} {format_concentration(c.concentration)}" for c in spec.components]
+    if spec.strong_acid:
+        parts.append(f"strong acid {format_concentration(spec.strong_acid)}")
+    if spec.strong_base:
+        parts.append(f"strong base {format_concentration(spec.strong_base)}")
+    return ", ".join(parts)
+
+
+def justification(method: Method, spec: SolutionSpec, v: ValidityResult, exact_ph: float, exact_u: float, mc: McResult, verdict_: Verdict) -> str:
+    """A drafted paragraph for the SOP or validation report, every number filled in.
+
+    The scientist reviews and edits it; it is a draft, not a conclusion.
+    """
+    approx = CATALOGUE[v.shortcut]
+    c = method.conditions
+    limit = v.limit
+    lo, hi = v.working_range
+    pkas = "; ".join(
+        f"pKa{j + 1} of {comp.substance} {p.at_working_temperature:.3f} ± {p.uncertainty:g} ({'substance table, ' if p.origin != 'method file' else ''}source {p.reference})"
+        for comp in spec.components[:1]
+        for j, p in enumerate(comp.pka)
+    )
+    p = mc.p_exceed[v.shortcut]
+    text = (
+        f"The pH of solution '{spec.id}' ({_composition(spec)}, {c.temperature:g} °C) is calculated in the procedure by "
+        f"the shortcut '{approx.title}' ({approx.id}). Compared with the exact solution of the charge and mass balances "
+        f"(activity model {c.activity}; {pkas}), which gives pH {exact_ph:.3f} (standard uncertainty {exact_u:.3f}), "
+        f"the shortcut's error at the nominal composition is {v.nominal_error:+.3f} pH, and over the working range "
+        f"{_range(lo, hi)} its largest magnitude is {v.max_abs_error:.3f} pH (at {format_concentration(v.max_abs_error_at)}), "
+        f"against the acceptance limit of ±{limit:g} pH. With the stated uncertainties of the pKa values, concentrations and "
+        f"temperature (Monte Carlo, {mc.draws:,} draws, seed {mc.seed}), the probability that the error exceeds the limit is "
+        f"{_pct(p)} (required at most {_pct(1 - method.criteria.probability)})."
+    )
+    if verdict_.status == PASS:
+        text += " The shortcut is therefore fit for this purpose over the whole working range."
+    elif verdict_.status == CONDITIONAL:
+        text += f" The shortcut is fit for purpose only under a condition: it {verdict_.condition}."
+    else:
+        text += (
+            " The shortcut is therefore not fit for this purpose; the procedure should state the pH from the exact "
+            "calculation or from measurement."
+        )
+    text += (
+        " A calculated pH supports and does not replace measurement with a calibrated pH meter; this draft needs review "
+        "by qualified staff under the laboratory's quality system."
+    )
+    return text
