@@ -199,6 +199,74 @@ def _option_message(exc: Exception) -> str:
     return text
 
 
+# ---------------------------------------------------------------- analyse
+def _add_analyse(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser(
+        "analyse",
+        help="validity ranges, sensitivity and Monte Carlo: write results.json, CSV tables and figures",
+        description="Analyse method files and write, per method, OUTPUT/ID/results.json, CSV tables and figures (SVG and PNG).",
+    )
+    p.add_argument("paths", nargs="*", default=["methods"], metavar="PATH", help="method files or folders (default: methods)")
+    p.add_argument("-o", "--output", default="analysis", metavar="DIR", help="folder to write into (default: analysis)")
+    p.add_argument("--draws", type=_positive_int, default=None, metavar="N", help="Monte-Carlo draws per solution (default 1000000)")
+    p.add_argument("--seed", type=int, default=None, metavar="N", help="seed of the Monte-Carlo generator (default 20261202)")
+    p.add_argument("--no-figures", action="store_true", help="write results and tables only")
+    p.set_defaults(run=_run_analyse)
+
+
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number; got {text!r}") from None
+    if not 1_000 <= value <= 100_000_000:
+        raise argparse.ArgumentTypeError(f"must be 1000 … 100000000; got {value}")
+    return value
+
+
+def _run_analyse(args: argparse.Namespace) -> int:
+    import json
+    import time
+    from pathlib import Path
+
+    from .analysis.method import AnalysisSettings, analyse_method
+    from .analysis.results import csv_tables, results_document
+    from .inputs.loader import load_paths
+    from .problems import format_problems
+
+    inputs = load_paths(args.paths)
+    if inputs.problems:
+        print(format_problems(list(inputs.problems)), file=sys.stderr)
+    if not inputs.ok:
+        raise InputFailure("nothing analysed: fix the errors above")
+    if not inputs.methods:
+        raise InputFailure("no method files found")
+    defaults = AnalysisSettings()
+    settings = AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed)
+    out = Path(args.output)
+    for method in inputs.methods:
+        t0 = time.perf_counter()
+        analysis = analyse_method(method, settings)
+        folder = out / method.id
+        try:
+            folder.mkdir(parents=True, exist_ok=True)
+            (folder / "results.json").write_text(json.dumps(results_document(analysis), indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+            for name, text in csv_tables(analysis).items():
+                (folder / name).write_text(text, encoding="utf-8")
+            if not args.no_figures:
+                from .render.figures import method_figures
+
+                (folder / "figures").mkdir(exist_ok=True)
+                for fig in method_figures(analysis):
+                    (folder / "figures" / f"{fig.stem}.svg").write_bytes(fig.svg)
+                    (folder / "figures" / f"{fig.stem}.png").write_bytes(fig.png)
+        except OSError as exc:
+            raise InputFailure(f"cannot write {folder}: {exc.strerror or exc}") from None
+        verdicts = ", ".join(f"{sa.spec.id}/{s.id}: {s.verdict.status}" for sa in analysis.solutions for s in sa.shortcuts)
+        print(f"{method.id}: {verdicts} ({time.perf_counter() - t0:.1f} s) → {folder}")
+    return EXIT_OK
+
+
 # ---------------------------------------------------------------- check, new, schema, substances
 def _add_check(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser("check", help="validate method files and print every problem",
@@ -322,7 +390,7 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
-_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_schema, _add_substances]
+_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_schema, _add_substances]
 
 
 def main(argv: Sequence[str] | None = None) -> int:
