@@ -25,8 +25,8 @@ system:
 	@tools/system-packages runtime
 
 demo: system $(VENV)/.installed
-	$(BIN)/dossier check methods
-	@for f in methods/*.yaml; do $(BIN)/dossier solve "$$f" || exit 1; done
+	$(BIN)/dossier build methods -o output
+	@echo "open output/index.html in a browser, or run: $(BIN)/dossier serve output"
 
 test: system $(VENV)/.installed-test
 	$(BIN)/python -m pytest

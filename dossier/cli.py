@@ -267,6 +267,129 @@ def _run_analyse(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+# ---------------------------------------------------------------- build, serve
+def _add_build(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser(
+        "build",
+        help="check, analyse and publish the dossier: HTML site, PDFs, results",
+        description=(
+            "Check every method file (nothing is built if any has an error), analyse each method, and publish "
+            "the dossier into OUTPUT: an HTML site, a PDF per method and for the whole dossier, results.json, "
+            "CSV tables and figures. The previous OUTPUT is replaced only when the build succeeds."
+        ),
+    )
+    p.add_argument("paths", nargs="*", default=["methods"], metavar="PATH", help="method files or folders (default: methods)")
+    p.add_argument("-o", "--output", default="output", metavar="DIR", help="folder to publish into (default: output)")
+    p.add_argument("--draws", type=_positive_int, default=None, metavar="N", help="Monte-Carlo draws per solution (default 1000000)")
+    p.add_argument("--seed", type=int, default=None, metavar="N", help="seed of the Monte-Carlo generator (default 20261202)")
+    p.add_argument("--no-pdf", action="store_true", help="skip the PDFs")
+    p.add_argument("--strict", action="store_true", help="treat warnings in method files as errors")
+    p.add_argument("--quiet", action="store_true", help="print only problems and the final line")
+    p.add_argument("--timings", action="store_true", help="print the time each stage took")
+    p.add_argument("--workers", type=int, default=None, metavar="N", help="processes to use (default: one per core)")
+    p.set_defaults(run=_run_build)
+
+
+class _Reporter:
+    """Progress of a build: a bar on a terminal, plain lines otherwise, nothing with --quiet."""
+
+    def __init__(self, quiet: bool) -> None:
+        self.quiet = quiet
+        self.tty = sys.stderr.isatty()
+        self.progress = None
+        self.task = None
+        self.name = ""
+        self.done = 0
+        self.total = 0
+
+    def __enter__(self) -> _Reporter:
+        if self.tty and not self.quiet:
+            from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
+
+            self.progress = Progress(TextColumn("{task.description}"), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(), transient=False)
+            self.progress.start()
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        if self.progress is not None:
+            self.progress.stop()
+
+    def stage(self, name: str, total: int) -> None:
+        self.name, self.done, self.total = name, 0, total
+        if self.progress is not None:
+            self.task = self.progress.add_task(name, total=total)
+
+    def step(self, label: str) -> None:
+        self.done += 1
+        if self.quiet:
+            return
+        if self.progress is not None:
+            self.progress.update(self.task, advance=1, description=f"{self.name}: {label}")
+        else:
+            print(f"{self.name}: {label} ({self.done}/{self.total})", file=sys.stderr, flush=True)
+
+
+def _run_build(args: argparse.Namespace) -> int:
+    from .analysis.method import AnalysisSettings
+    from .pipeline import build
+    from .problems import format_problems
+    from .publish.staging import PublishError
+
+    defaults = AnalysisSettings()
+    settings = AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed)
+    try:
+        with _Reporter(args.quiet) as rep:
+            outcome = build(args.paths, args.output, settings=settings, pdf=not args.no_pdf, strict=args.strict, reporter=rep, workers=args.workers)
+    except PublishError as exc:
+        raise InputFailure(f"{exc}; the previous dossier is unchanged") from None
+    if outcome.problems:
+        print(format_problems(list(outcome.problems)), file=sys.stderr)
+    if args.timings:
+        for stage, seconds in outcome.timings.items():
+            print(f"  {stage:<40} {seconds:7.2f} s")
+    if not outcome.ok:
+        raise InputFailure("nothing built: fix the errors above (the previous dossier is unchanged)")
+    index = outcome.output.resolve() / "index.html"
+    print(f"built {len(outcome.files)} files into {outcome.output}; open {index.as_uri()} or run: dossier serve {outcome.output}")
+    return EXIT_OK
+
+
+def _add_serve(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("serve", help="preview a built dossier on a local port (loopback only)",
+                       description="Serve a built dossier over HTTP on 127.0.0.1 for preview; stop with Ctrl-C.")
+    p.add_argument("folder", nargs="?", default="output", metavar="DIR", help="the built dossier (default: output)")
+    p.add_argument("--port", type=int, default=8765, help="port on 127.0.0.1 (0: any free port; default 8765)")
+    p.set_defaults(run=_run_serve)
+
+
+def _run_serve(args: argparse.Namespace) -> int:
+    import functools
+    from http.server import SimpleHTTPRequestHandler, ThreadingHTTPServer
+    from pathlib import Path
+
+    folder = Path(args.folder)
+    if not (folder / "index.html").is_file():
+        raise InputFailure(f"{folder} holds no built dossier (no index.html); run: dossier build -o {folder}")
+
+    class Quiet(SimpleHTTPRequestHandler):
+        def log_message(self, format: str, *a: object) -> None:  # noqa: A002 - the base class's name
+            pass
+
+    handler = functools.partial(Quiet, directory=str(folder))
+    try:
+        server = ThreadingHTTPServer(("127.0.0.1", args.port), handler)
+    except OSError as exc:
+        raise InputFailure(f"cannot listen on 127.0.0.1:{args.port}: {exc.strerror or exc}") from None
+    print(f"serving {folder} at http://127.0.0.1:{server.server_address[1]}/ (Ctrl-C to stop)", flush=True)
+    try:
+        server.serve_forever()
+    except KeyboardInterrupt:
+        pass
+    finally:
+        server.server_close()
+    return EXIT_OK
+
+
 # ---------------------------------------------------------------- check, new, schema, substances
 def _add_check(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser("check", help="validate method files and print every problem",
@@ -390,7 +513,7 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
-_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_schema, _add_substances]
+_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_build, _add_serve, _add_schema, _add_substances]
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -23,7 +23,7 @@ from ..inputs.model import Method, SolutionSpec
 from .montecarlo import McResult
 from .validity import ValidityResult
 
-__all__ = ["Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_concentration"]
+__all__ = ["Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_concentration", "format_percent"]
 
 PASS, FAIL, CONDITIONAL = "pass", "fail", "conditional"
 
@@ -59,8 +59,8 @@ def _range(a: float, b: float) -> str:
     return f"{format_concentration(a)} – {format_concentration(b)}"
 
 
-def _pct(p: float) -> str:
-    """0 %, 0.0006 %, 4.5 %, 100.0 %."""
+def format_percent(p: float) -> str:
+    """A probability as a percentage: 0 %, 0.0006 %, 4.5 %, 100.0 %."""
     if p == 0.0:
         return "0 %"
     if p * 100 >= 0.1:
@@ -77,7 +77,7 @@ def verdict(v: ValidityResult, mc: McResult, probability: float) -> Verdict:
     reasons = [
         f"error at the nominal composition {v.nominal_error:+.3f} pH (limit ±{limit:g})",
         f"largest |error| over the working range {_range(lo, hi)}: {v.max_abs_error:.3f} pH at {format_concentration(v.max_abs_error_at)}",
-        f"P(|error| > {limit:g}) = {_pct(p)} under the stated uncertainties (allowed {_pct(allowed)}; {mc.draws:,} Monte-Carlo draws)",
+        f"P(|error| > {limit:g}) = {format_percent(p)} under the stated uncertainties (allowed {format_percent(allowed)}; {mc.draws:,} Monte-Carlo draws)",
     ]
     if abs(v.nominal_error) > limit:
         return Verdict(FAIL, "", tuple(reasons))
@@ -87,7 +87,7 @@ def verdict(v: ValidityResult, mc: McResult, probability: float) -> Verdict:
         parts = " and ".join(_range(a, b) for a, b in v.holds_within_working_range) or "no part of it"
         conditions.append(f"holds only for {parts} of the working range {_range(lo, hi)}")
     if p > allowed:
-        conditions.append(f"holds only at nominal inputs: with the stated uncertainties P(|error| > {limit:g}) = {_pct(p)}, above the allowed {_pct(allowed)}")
+        conditions.append(f"holds only at nominal inputs: with the stated uncertainties P(|error| > {limit:g}) = {format_percent(p)}, above the allowed {format_percent(allowed)}")
     if not conditions:
         return Verdict(PASS, "", tuple(reasons))
     return Verdict(CONDITIONAL, "; ".join(conditions), tuple(reasons))
@@ -125,7 +125,7 @@ def justification(method: Method, spec: SolutionSpec, v: ValidityResult, exact_p
         f"{_range(lo, hi)} its largest magnitude is {v.max_abs_error:.3f} pH (at {format_concentration(v.max_abs_error_at)}), "
         f"against the acceptance limit of ±{limit:g} pH. With the stated uncertainties of the pKa values, concentrations and "
         f"temperature (Monte Carlo, {mc.draws:,} draws, seed {mc.seed}), the probability that the error exceeds the limit is "
-        f"{_pct(p)} (required at most {_pct(1 - method.criteria.probability)})."
+        f"{format_percent(p)} (required at most {format_percent(1 - method.criteria.probability)})."
     )
     if verdict_.status == PASS:
         text += " The shortcut is therefore fit for this purpose over the whole working range."

@@ -425,7 +425,7 @@ CATALOGUE: dict[str, Approximation] = {
         Approximation(
             "weak-acid-square-root",
             "Square-root formula for a weak acid",
-            r"\mathrm{pH} = \tfrac12\left(\mathrm{p}K_a - \log_{10} C\right)",
+            r"\mathrm{pH} = \frac{1}{2}\left(\mathrm{p}K_a - \log_{10} C\right)",
             (
                 "the acid barely dissociates: [HA] ≈ C",
                 "water contributes no H⁺",
@@ -460,7 +460,7 @@ CATALOGUE: dict[str, Approximation] = {
         Approximation(
             "weak-base-square-root",
             "Square-root formula for a weak base",
-            r"\mathrm{pOH} = \tfrac12\left(\mathrm{p}K_b - \log_{10} C\right),\quad \mathrm{p}K_b = \mathrm{p}K_w - \mathrm{p}K_a",
+            r"\mathrm{pOH} = \frac{1}{2}\left(\mathrm{p}K_b - \log_{10} C\right),\quad \mathrm{p}K_b = \mathrm{p}K_w - \mathrm{p}K_a",
             (
                 "the base barely reacts with water: [B] ≈ C",
                 "water contributes no OH⁻",
@@ -485,7 +485,7 @@ CATALOGUE: dict[str, Approximation] = {
         Approximation(
             "conjugate-base-square-root",
             "Square-root formula for the salt of a weak acid",
-            r"\mathrm{pH} = \tfrac12\left(\mathrm{p}K_w + \mathrm{p}K_a + \log_{10} C\right)",
+            r"\mathrm{pH} = \frac{1}{2}\left(\mathrm{p}K_w + \mathrm{p}K_a + \log_{10} C\right)",
             (
                 "the anion barely hydrolyses: [A⁻] ≈ C",
                 "water contributes no OH⁻",
@@ -514,7 +514,7 @@ CATALOGUE: dict[str, Approximation] = {
         Approximation(
             "ampholyte-mean",
             "Mean of the two pKa values of an ampholyte",
-            r"\mathrm{pH} = \tfrac12\left(\mathrm{p}K_{a,r} + \mathrm{p}K_{a,r+1}\right)",
+            r"\mathrm{pH} = \frac{1}{2}\left(\mathrm{p}K_{a,r} + \mathrm{p}K_{a,r+1}\right)",
             (
                 "the concentration is large compared with Ka,r and with Kw/Ka,r+1",
                 "activities equal concentrations",

@@ -1,0 +1,1 @@
+"""Publish: the one writer, the staging folder and the swap into place."""

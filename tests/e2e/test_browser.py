@@ -1,0 +1,97 @@
+"""A real headless Chromium opens every page over file:// and over the preview
+server: no console errors, no failed requests, every image loaded, every
+internal link and anchor resolves, every table has header cells."""
+
+from __future__ import annotations
+
+import re
+import subprocess
+import sys
+import urllib.parse
+from pathlib import Path
+
+import pytest
+
+from ..conftest import require_executable
+from .conftest import ROOT
+
+ARTIFACTS = ROOT / "tests" / "artifacts"
+CHROMIUM_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
+                 "--disable-component-update", "--disable-sync"]
+
+
+@pytest.fixture(scope="module")
+def browser():  # noqa: ANN201
+    chromium = require_executable("chromium", "the site is tested in a real browser")
+    from playwright.sync_api import sync_playwright
+
+    with sync_playwright() as p:
+        b = p.chromium.launch(executable_path=chromium, args=CHROMIUM_ARGS)
+        yield b
+        b.close()
+
+
+@pytest.fixture(scope="module")
+def server(built: Path):  # noqa: ANN201
+    proc = subprocess.Popen([sys.executable, "-m", "dossier", "serve", str(built), "--port", "0"], stdout=subprocess.PIPE, text=True, cwd=ROOT)
+    line = proc.stdout.readline()
+    m = re.search(r"http://127\.0\.0\.1:(\d+)/", line)
+    assert m, line
+    yield f"http://127.0.0.1:{m.group(1)}/"
+    proc.terminate()
+    proc.wait(timeout=10)
+
+
+def pages(built: Path) -> list[str]:
+    return sorted(str(p.relative_to(built)) for p in built.rglob("*.html"))
+
+
+def check_site(browser, base: str, built: Path) -> None:  # noqa: ANN001
+    page = browser.new_page(viewport={"width": 1280, "height": 900})
+    problems: list[str] = []
+    page.on("console", lambda msg: problems.append(f"console {msg.type}: {msg.text}") if msg.type == "error" else None)
+    page.on("pageerror", lambda exc: problems.append(f"page error: {exc}"))
+    page.on("requestfailed", lambda req: problems.append(f"failed request: {req.url}"))
+    page.on("response", lambda resp: problems.append(f"HTTP {resp.status}: {resp.url}") if resp.status >= 400 else None)
+    ids: dict[str, set[str]] = {}
+    links: list[tuple[str, str]] = []
+    for rel in pages(built):
+        url = urllib.parse.urljoin(base, rel)
+        page.goto(url, wait_until="load")
+        broken = page.evaluate("""() => [...document.images].filter(i => !i.complete || i.naturalWidth === 0).map(i => i.src)""")
+        assert not broken, (rel, broken)
+        untitled = page.evaluate("""() => [...document.images].filter(i => !i.alt || i.alt.length < 5).map(i => i.src)""")
+        assert not untitled, (rel, "images without alt text", untitled)
+        headless = page.evaluate("""() => [...document.querySelectorAll('table')].filter(t => t.querySelectorAll('th').length === 0).length""")
+        assert headless == 0, (rel, "tables without header cells")
+        assert page.evaluate("() => !!document.querySelector('a.skip[href=\"#content\"]') && !!document.getElementById('content')"), rel
+        ids[url.split("#")[0]] = set(page.evaluate("() => [...document.querySelectorAll('[id]')].map(e => e.id)"))
+        for href in page.evaluate("() => [...document.querySelectorAll('a[href]')].map(a => a.getAttribute('href'))"):
+            links.append((url, href))
+        if rel in ("index.html", "methods/boric-rinse/index.html"):
+            ARTIFACTS.mkdir(parents=True, exist_ok=True)
+            scheme = base.split(":")[0]
+            page.screenshot(path=str(ARTIFACTS / f"{scheme}-{rel.replace('/', '-')}.png"), full_page=False)
+    for url, href in links:
+        if re.match(r"^[a-z]+:", href) and not href.startswith(("file:", "http://127.0.0.1")):
+            continue  # no external links are expected; none is followed
+        target = urllib.parse.urljoin(url, href)
+        doc, _, frag = target.partition("#")
+        if doc.endswith(".html"):
+            assert doc in ids, (url, href, "page not found")
+            if frag:
+                assert frag in ids[doc], (url, href, "anchor not found")
+        else:
+            path = built / urllib.parse.unquote(doc[len(base):]) if doc.startswith(base) else None
+            assert path is not None and path.is_file(), (url, href)
+    page.close()
+    assert not problems, problems
+
+
+def test_site_over_file_urls(browser, built: Path) -> None:  # noqa: ANN001
+    check_site(browser, built.as_uri() + "/", built)
+
+
+def test_site_over_the_preview_server(browser, server: str, built: Path) -> None:  # noqa: ANN001
+    check_site(browser, server, built)
+    assert server.startswith("http://127.0.0.1:")
