@@ -287,6 +287,8 @@ def _add_build(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--quiet", action="store_true", help="print only problems and the final line")
     p.add_argument("--timings", action="store_true", help="print the time each stage took")
     p.add_argument("--workers", type=int, default=None, metavar="N", help="processes to use (default: one per core)")
+    p.add_argument("--previous", metavar="DIR", help="a dossier built before (may be OUTPUT itself): add a page of the changes since it")
+    p.add_argument("--no-cache", action="store_true", help="recompute every method even if its inputs are unchanged")
     p.set_defaults(run=_run_build)
 
 
@@ -339,9 +341,12 @@ def _run_build(args: argparse.Namespace) -> int:
     settings = AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed)
     try:
         with _Reporter(args.quiet) as rep:
-            outcome = build(args.paths, args.output, settings=settings, pdf=not args.no_pdf, strict=args.strict, reporter=rep, workers=args.workers)
+            outcome = build(args.paths, args.output, settings=settings, pdf=not args.no_pdf, strict=args.strict, reporter=rep,
+                            workers=args.workers, previous=args.previous, cache=not args.no_cache)
     except PublishError as exc:
         raise InputFailure(f"{exc}; the previous dossier is unchanged") from None
+    except ValueError as exc:
+        raise InputFailure(f"--previous: {exc}") from None
     if outcome.problems:
         print(format_problems(list(outcome.problems)), file=sys.stderr)
     if args.timings:
@@ -350,7 +355,76 @@ def _run_build(args: argparse.Namespace) -> int:
     if not outcome.ok:
         raise InputFailure("nothing built: fix the errors above (the previous dossier is unchanged)")
     index = outcome.output.resolve() / "index.html"
-    print(f"built {len(outcome.files)} files into {outcome.output}; open {index.as_uri()} or run: dossier serve {outcome.output}")
+    cached = len(outcome.analyses) - len(outcome.recomputed)
+    reuse = f" ({cached} of {len(outcome.analyses)} methods unchanged, taken from the cache)" if cached else ""
+    print(f"built {len(outcome.files)} files into {outcome.output}{reuse}; open {index.as_uri()} or run: dossier serve {outcome.output}")
+    return EXIT_OK
+
+
+def _add_verify(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser(
+        "verify",
+        help="re-compute a built dossier and report every file or number that no longer matches",
+        description=(
+            "Re-hash every file of a built dossier against its manifest, re-compute every ledger entry from the "
+            "recorded inputs, and, with --methods, check that the method files still hash to what the manifest "
+            "recorded. Exit 0 only when everything matches."
+        ),
+    )
+    p.add_argument("output", nargs="?", default="output", metavar="DIR", help="the built dossier (default: output)")
+    p.add_argument("--methods", nargs="+", metavar="PATH", help="method files or folders to check against the manifest")
+    p.set_defaults(run=_run_verify)
+
+
+def _run_verify(args: argparse.Namespace) -> int:
+    from .publish.verify import verify
+
+    report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True))
+    for note in report.notes:
+        print(f"note: {note}")
+    for m in report.mismatches:
+        print(str(m))
+    if report.ok:
+        print(f"{args.output}: everything matches ({report.files_checked} files, {report.entries_checked} ledger entries re-computed)")
+        return EXIT_OK
+    print(f"{args.output}: {len(report.mismatches)} mismatch(es)")
+    return EXIT_INPUT
+
+
+def _add_diff(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("diff", help="list the inputs, numbers and verdicts that changed between two built dossiers",
+                       description="Compare two built dossiers method by method: changed inputs, numbers and verdicts.")
+    p.add_argument("old", metavar="OLD", help="the earlier dossier")
+    p.add_argument("new", metavar="NEW", help="the later dossier")
+    p.add_argument("--json", action="store_true", help="print JSON")
+    p.set_defaults(run=_run_diff)
+
+
+def _run_diff(args: argparse.Namespace) -> int:
+    from dataclasses import asdict
+    from pathlib import Path
+
+    from .publish.diff import diff_dossiers
+    from .render.terminal import print_json
+
+    try:
+        d = diff_dossiers(Path(args.old), Path(args.new))
+    except (OSError, ValueError, KeyError) as exc:
+        raise InputFailure(f"not a built dossier: {exc}") from None
+    if args.json:
+        print_json(asdict(d))
+        return EXIT_OK
+    print(f"{len(d.changed)} of {len(d.methods)} methods changed ({args.old} → {args.new})")
+    for md in d.methods:
+        if md.status == "unchanged":
+            continue
+        rev = f", revision {md.old_revision} → {md.new_revision}" if md.old_revision != md.new_revision and md.old_revision and md.new_revision else ""
+        print(f"\n{md.id}: {md.status}{rev}")
+        for title, rows in (("verdicts", md.verdicts), ("inputs", md.inputs), ("numbers", md.numbers)):
+            if rows:
+                print(f"  {title}:")
+                for c in rows:
+                    print(f"    {c.what}: {c.old!r} → {c.new!r}")
     return EXIT_OK
 
 
@@ -513,7 +587,7 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
-_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_build, _add_serve, _add_schema, _add_substances]
+_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_build, _add_serve, _add_verify, _add_diff, _add_schema, _add_substances]
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -2,41 +2,43 @@
 
 The only module that knows every stage. Everything is loaded and checked
 before anything is analysed, everything is analysed and rendered (in memory)
-before anything is written, and the files are written into a staging folder
-that replaces the output in one step at the end: a build that fails leaves
-the previous dossier exactly as it was.
+before anything is written, and the files are written through one writer
+into a staging folder that replaces the output in one step at the end: a
+build that fails leaves the previous dossier exactly as it was.
+
+A content-hash cache (:mod:`dossier.publish.cache`) keeps each method's
+analysis and files: an unchanged method is not recomputed, and a rebuild
+with nothing changed recomputes nothing.
 """
 
 from __future__ import annotations
 
+import json
 import multiprocessing
 import os
 import platform
 import time
-from concurrent.futures import ProcessPoolExecutor, as_completed
 from collections.abc import Iterator
+from concurrent.futures import ProcessPoolExecutor, as_completed
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
-from importlib import metadata
 from pathlib import Path
-from typing import Protocol
+from typing import Any, Protocol
 
 from . import __version__
-from .analysis.method import AnalysisSettings, MethodAnalysis, analyse_method
+from .analysis.method import AnalysisSettings, MethodAnalysis
 from .inputs.loader import load_paths
+from .inputs.model import Method
 from .inputs.substances import load_table
 from .problems import Problem
+from .publish.cache import Cache, dossier_key, method_key
+from .publish.manifest import MANIFEST_NAME, dependency_versions, manifest_document, portable_path
 from .publish.staging import staging_folder, swap_into_place
 from .publish.writer import Writer
-from .inputs.model import Method
-from .render.figures import FigureFile
-from .render.site import BuildInfo, dossier_pdf, method_pdf, render_method, render_site, shared_assets
+from .render.buildinfo import BuildInfo
 
-__all__ = ["Reporter", "BuildOutcome", "build", "build_time", "DEPENDENCIES"]
-
-DEPENDENCIES = ("numpy", "scipy", "pandas", "matplotlib", "jinja2", "markdown-it-py", "weasyprint", "pydantic", "pint", "pyyaml", "rich")
-"""The libraries whose versions every build records."""
+__all__ = ["Reporter", "BuildOutcome", "build", "build_time", "solver_settings"]
 
 
 class Reporter(Protocol):
@@ -67,10 +69,12 @@ class BuildOutcome:
         Every input problem (warnings too).
     output : Path
     files : dict
-        {relative path: SHA-256} of everything written.
+        {relative path: SHA-256} of everything written (the manifest included).
     timings : dict
         Seconds per stage.
     analyses : tuple of MethodAnalysis
+    recomputed : tuple of str
+        Ids of the methods analysed in this build (the others came from the cache).
     """
 
     ok: bool
@@ -79,6 +83,7 @@ class BuildOutcome:
     files: dict[str, str] = field(default_factory=dict)
     timings: dict[str, float] = field(default_factory=dict)
     analyses: tuple[MethodAnalysis, ...] = ()
+    recomputed: tuple[str, ...] = ()
 
 
 def build_time() -> str:
@@ -88,14 +93,25 @@ def build_time() -> str:
     return moment.strftime("%Y-%m-%d %H:%M UTC")
 
 
-def _versions() -> tuple[tuple[str, str], ...]:
-    out = []
-    for name in DEPENDENCIES:
-        try:
-            out.append((name, metadata.version(name)))
-        except metadata.PackageNotFoundError:
-            out.append((name, "not installed"))
-    return tuple(out)
+def solver_settings(settings: AnalysisSettings, pdf: bool) -> dict[str, Any]:
+    """The settings a manifest records: solver tolerances, grids, Monte Carlo, outputs."""
+    from .analysis import validity
+    from .chemistry import solver
+
+    return {
+        "solver": {"tolerance_ln_h": solver.TOLERANCE, "max_newton_iterations": solver._MAX_NEWTON, "max_ionic_strength_iterations": solver._MAX_OUTER, "block_points": solver.CHUNK},
+        "validity": {
+            "concentration_span_mol_per_l": list(validity.CONCENTRATION_SPAN),
+            "concentration_points": validity.CONCENTRATION_POINTS,
+            "pka_span": list(validity.PKA_SPAN),
+            "pka_points": validity.PKA_POINTS,
+            "concentration_rel_tolerance": 1e-3,
+            "pka_tolerance": 1e-3,
+        },
+        "monte_carlo": {"draws": settings.draws, "seed": settings.seed, "generator": "numpy PCG64, SeedSequence(seed, spawn_key=(solution index,))"},
+        "maps": {"pka_points": settings.map_pka, "concentration_points": settings.map_conc},
+        "pdf": pdf,
+    }
 
 
 @contextmanager
@@ -116,8 +132,18 @@ def build(
     strict: bool = False,
     reporter: Reporter | None = None,
     workers: int | None = None,
+    previous: str | Path | None = None,
+    cache: bool = True,
 ) -> BuildOutcome:
     """Build the dossier of the method files under ``paths`` into ``output``.
+
+    Parameters
+    ----------
+    previous : path, optional
+        A dossier built before (it may be ``output`` itself): the new dossier
+        gets a "changes since the previous revision" page.
+    cache : bool
+        Use the content-hash cache beside the output.
 
     Returns
     -------
@@ -128,6 +154,8 @@ def build(
     ------
     dossier.publish.staging.PublishError
         When the output cannot be written or replaced (the previous output is kept).
+    ValueError
+        When ``previous`` is not a built dossier.
     """
     out = Path(output)
     rep = reporter or _Silent()
@@ -139,64 +167,160 @@ def build(
         rep.step("method files checked")
     if not inputs.ok or not inputs.methods:
         return BuildOutcome(False, inputs.problems, out, timings=timings)
-    info = BuildInfo(
-        version=__version__,
-        time=build_time(),
-        python=platform.python_version(),
-        dependencies=_versions(),
-        table_sha256=load_table().sha256,
-        draws=settings.draws,
-        seed=settings.seed,
-    )
+    old_ledgers = _previous_ledgers(previous)
+    table = load_table()
+    info = BuildInfo(__version__, build_time(), platform.python_version(), dependency_versions(), table.sha256, settings.draws, settings.seed)
+    store = Cache.beside(out) if cache else None
+    config = solver_settings(settings, pdf)
     methods = inputs.methods
-    n_workers = max(1, min(workers if workers else (os.cpu_count() or 1), len(methods)))
-    with _Pool(n_workers) as pool:
+    keys = {m.id: method_key(m.source_sha256, table.sha256, config, pdf) for m in methods}
+    cached = {m.id: store.get("methods", keys[m.id]) for m in methods} if store else {m.id: None for m in methods}
+    todo = [m for m in methods if cached[m.id] is None]
+    n_workers = max(1, min(workers if workers else (os.cpu_count() or 1), max(len(todo), 1)))
+
+    with _Pool(n_workers if todo else 1) as pool:
         with _timed(timings, "analyse, plot and render methods"):
-            rep.stage("analysing and rendering methods", len(methods))
-            results = pool.run(_method_job, [(m, settings, info) for m in methods], [m.id for m in methods], rep)
-        analyses = tuple(r[0] for r in results)
-        figures = {a.method.id: figs for a, _, figs in results}
-        files: dict[str, bytes] = shared_assets()
-        for _, method_files, _ in results:
-            files.update(method_files)
-        files.update(render_site(analyses, info))
+            rep.stage("analysing and rendering methods", len(todo))
+            fresh = pool.run(_method_job, [(m, settings, info) for m in todo], [m.id for m in todo], rep)
+        results = {m.id: r for m, r in zip(todo, fresh)}
+        results.update({mid: (c[0], c[1], c[2]) for mid, c in cached.items() if c is not None})
+        analyses = tuple(results[m.id][0] for m in methods)
+        new_ledgers = {m.id: _ledger_of(results[m.id][1], m.id) for m in methods}
+        diff = _diff(old_ledgers, new_ledgers, previous)
+        site_key = dossier_key([keys[m.id] for m in methods], {"pdf": pdf, "diff": _diff_key(diff)})
+        site = store.get("dossier", site_key) if store else None
+        assets: dict[str, bytes] | None = None
+        if todo or site is None:
+            from .render.site import shared_assets
+
+            assets = shared_assets()
         if pdf:
             with _timed(timings, "PDF"):
-                rep.stage("writing PDFs", len(methods) + 1)
-                jobs = [(dossier_pdf, (analyses, figures, info, files))]
-                jobs += [(method_pdf, (a, figures[a.method.id], info, _method_files(files, a.method.id))) for a in analyses]
-                labels = ["whole dossier"] + [a.method.id for a in analyses]
-                for part in pool.run(_call, jobs, labels, rep):
-                    files.update(part)
+                jobs, labels = [], []
+                if site is None:
+                    everything = dict(assets or {})
+                    for _, method_files, _ in results.values():
+                        everything.update(method_files)
+                    jobs.append((_dossier_pdf_job, (analyses, {m.id: results[m.id][2] for m in methods}, info, everything)))
+                    labels.append("whole dossier")
+                for m in todo:
+                    a, method_files, figs = results[m.id]
+                    jobs.append((_method_pdf_job, (a, figs, info, {**(assets or {}), **method_files})))
+                    labels.append(m.id)
+                rep.stage("writing PDFs", len(jobs))
+                for label, part in zip(labels, pool.run(_call, jobs, labels, rep)):
+                    if label == "whole dossier":
+                        site = dict(part)
+                    else:
+                        results[label][1].update(part)
+    if site is None or "index.html" not in site:
+        from .render.site import render_site
+
+        site = {**(site or {}), **(assets or {}), **render_site(analyses, info, diff)}
+    if store:
+        for m in todo:
+            store.put("methods", keys[m.id], results[m.id])
+        store.put("dossier", site_key, site)
+    files: dict[str, bytes] = {}
+    for m in methods:
+        files.update(results[m.id][1])
+    files.update(site)
     with _timed(timings, "publish"):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
             writer = Writer(staging)
             for rel in sorted(files):
                 writer.write(rel, files[rel])
+            manifest = manifest_document(
+                build_time=info.time,
+                python=info.python,
+                settings=config,
+                inputs=_inputs_record(methods, table.sha256),
+                methods=[{"id": m.id, "revision": m.revision, "source": portable_path(m.path), "source_sha256": m.source_sha256, "cache_key": keys[m.id]} for m in methods],
+                outputs={rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written},
+            )
+            writer.write(MANIFEST_NAME, json.dumps(manifest, indent=2, ensure_ascii=False) + "\n")
             swap_into_place(staging, out)
-        rep.step(f"published {len(files)} files")
-    return BuildOutcome(True, inputs.problems, out, dict(writer.written), timings, analyses)
+        rep.step(f"published {len(writer.written)} files")
+    if store:
+        store.prune()
+    return BuildOutcome(True, inputs.problems, out, dict(writer.written), timings, analyses, tuple(m.id for m in todo))
 
 
-def _method_job(method: Method, settings: AnalysisSettings, info: BuildInfo) -> tuple[MethodAnalysis, dict[str, bytes], tuple[FigureFile, ...]]:
-    """Everything one method needs but its PDF, in one process: analysis, figures, page."""
+# ---------------------------------------------------------------- helpers
+def _inputs_record(methods: tuple[Method, ...], table_sha256: str) -> list[dict[str, Any]]:
+    """Every input file: each method file, and the substance table."""
+    from importlib import resources
+
+    out = []
+    for m in methods:
+        p = Path(m.path)
+        out.append({"path": portable_path(p), "sha256": m.source_sha256, "bytes": p.stat().st_size if p.exists() else None, "role": "method"})
+    size = len(resources.files("dossier").joinpath("data/substances.yaml").read_bytes())
+    out.append({"path": "dossier/data/substances.yaml", "sha256": table_sha256, "bytes": size, "role": "substance table"})
+    return out
+
+
+def _ledger_of(files: dict[str, bytes], method_id: str) -> dict[str, Any]:
+    return json.loads(files[f"methods/{method_id}/ledger.json"])
+
+
+def _previous_ledgers(previous: str | Path | None) -> dict[str, dict[str, Any]] | None:
+    if previous is None:
+        return None
+    from .publish.diff import read_ledgers
+
+    try:
+        return read_ledgers(Path(previous))
+    except (OSError, ValueError, KeyError) as exc:
+        raise ValueError(f"{previous} is not a built dossier (no readable manifest.json and ledgers): {exc}") from None
+
+
+def _diff(old, new, previous):  # noqa: ANN001, ANN202
+    if old is None:
+        return None
+    from .publish.diff import diff_ledgers
+
+    return diff_ledgers(old, new, portable_path(previous), "this build")
+
+
+def _diff_key(diff) -> str | None:  # noqa: ANN001
+    if diff is None:
+        return None
+    import hashlib
+
+    return hashlib.sha256(repr(diff).encode()).hexdigest()
+
+
+def _method_job(method: Method, settings: AnalysisSettings, info: BuildInfo) -> tuple[MethodAnalysis, dict[str, bytes], tuple]:
+    """Everything one method needs but its PDF, in one process: analysis, figures, page, ledger."""
+    from .analysis.method import analyse_method
+    from .render.site import render_method
+
     analysis = analyse_method(method, settings)
     files, figures = render_method(analysis, info)
     return analysis, files, figures
+
+
+def _method_pdf_job(analysis, figures, info, files) -> dict[str, bytes]:  # noqa: ANN001
+    from .render.site import method_pdf
+
+    return method_pdf(analysis, figures, info, files)
+
+
+def _dossier_pdf_job(analyses, figures, info, files) -> dict[str, bytes]:  # noqa: ANN001
+    """The dossier PDF, with the site pages and assets it comes with (cached together)."""
+    from .render.site import dossier_pdf
+
+    return dossier_pdf(analyses, figures, info, files)
 
 
 def _call(fn, args):  # noqa: ANN001, ANN202
     return fn(*args)
 
 
-def _method_files(files: dict[str, bytes], method_id: str) -> dict[str, bytes]:
-    """What one method's PDF reads: its own files and the shared assets."""
-    return {k: v for k, v in files.items() if k.startswith((f"methods/{method_id}/", "assets/"))}
-
-
 class _Pool:
-    """Runs jobs in worker processes (spawned) when there is more than one core, else in this one."""
+    """Runs jobs in worker processes (spawned) when there is more than one, else in this one."""
 
     def __init__(self, workers: int) -> None:
         self.workers = workers
@@ -212,8 +336,8 @@ class _Pool:
             self.executor.shutdown(wait=True, cancel_futures=True)
 
     def run(self, fn, arg_list, labels, rep):  # noqa: ANN001, ANN201
-        """``fn(*args)`` for each args, in order of submission; reports each as it finishes."""
-        if self.executor is None:
+        """``fn(*args)`` for each args, results in order of submission; reports each as it finishes."""
+        if self.executor is None or len(arg_list) <= 1:
             out = []
             for args, label in zip(arg_list, labels):
                 out.append(fn(*args))

@@ -37,11 +37,10 @@ def safe_relative(path: str) -> PurePosixPath:
     """
     if not path or path.startswith("/") or "\\" in path or "\x00" in path or re.match(r"^[A-Za-z]:", path):
         raise UnsafePath(f"unsafe output path {path!r}")
-    p = PurePosixPath(path)
-    for part in p.parts:
+    for part in path.split("/"):
         if part in ("", ".", "..") or _RESERVED.match(part) or any(ord(ch) < 32 for ch in part):
             raise UnsafePath(f"unsafe output path {path!r}")
-    return p
+    return PurePosixPath(path)
 
 
 @dataclass
@@ -50,6 +49,7 @@ class Writer:
 
     root: Path
     written: dict[str, str] = field(default_factory=dict)  # relative path -> sha256
+    sizes: dict[str, int] = field(default_factory=dict)  # relative path -> bytes
 
     def path_of(self, relative: str) -> Path:
         """The absolute path a relative output path would be written to."""
@@ -70,4 +70,5 @@ class Writer:
             fh.flush()
             os.fsync(fh.fileno())
         self.written[rel] = hashlib.sha256(raw).hexdigest()
+        self.sizes[rel] = len(raw)
         return target

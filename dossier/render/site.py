@@ -10,8 +10,9 @@ import json
 import mimetypes
 from dataclasses import dataclass
 from importlib import resources
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
+from ..analysis.ledger import ledger_document, ledger_entries
 from ..analysis.method import MethodAnalysis
 from ..analysis.results import csv_tables, results_document
 from ..chemistry import ACTIVITY_MODELS, CATALOGUE
@@ -19,7 +20,11 @@ from ..inputs.model import METHOD_FILE, Method
 from ..inputs.substances import SubstanceTable, load_table
 from .equations import EXACT_MODEL, all_equations, equation_svg
 from .figures import FigureFile, method_figures
+from .buildinfo import BuildInfo
 from .html import render
+
+if TYPE_CHECKING:
+    from ..publish.diff import DossierDiff
 
 __all__ = ["BuildInfo", "RefView", "shared_assets", "render_method", "method_pdf", "dossier_pdf", "render_site", "OUTPUT_README", "references_for"]
 
@@ -29,19 +34,6 @@ OUTPUT_README = """# output/
 folder except this file is generated and ignored by git.
 """
 """The README.md every build writes at the top of the output (the same as the committed one)."""
-
-
-@dataclass(frozen=True)
-class BuildInfo:
-    """What the pages say about the build itself."""
-
-    version: str
-    time: str
-    python: str
-    dependencies: tuple[tuple[str, str], ...]
-    table_sha256: str
-    draws: int
-    seed: int
 
 
 @dataclass(frozen=True)
@@ -69,11 +61,36 @@ def references_for(method: Method, table: SubstanceTable, prefix: str = "") -> d
     return out
 
 
+@dataclass(frozen=True)
+class LedgerRow:
+    """A ledger entry as the pages show it."""
+
+    id: str
+    value: float
+    unit: str
+    quantity: str
+    equation: str
+    equation_href: str
+
+
+@dataclass(frozen=True)
+class LedgerView:
+    entries: tuple[LedgerRow, ...]
+
+
+def _ledger_view(a: MethodAnalysis) -> LedgerView:
+    rows = []
+    for e in ledger_entries(a):
+        anchor = f"shortcut-{e.equation}" if e.equation in CATALOGUE else ("exact" if e.equation in ("exact-equilibrium", "van-t-hoff", "unit-conversion") else "analyses")
+        rows.append(LedgerRow(e.id, e.value, e.unit, e.quantity, e.equation, f"../../calculations.html#{anchor}"))
+    return LedgerView(tuple(rows))
+
+
 def _page_context(a: MethodAnalysis, figures: tuple[FigureFile, ...], table: SubstanceTable, prefix: str = "") -> dict[str, Any]:
     by_pair: dict[tuple[str, str], list[FigureFile]] = {}
     for f in figures:
         by_pair.setdefault((f.solution, f.shortcut), []).append(f)
-    return {"a": a, "refs": references_for(a.method, table, prefix), "figures": by_pair}
+    return {"a": a, "refs": references_for(a.method, table, prefix), "figures": by_pair, "ledger": _ledger_view(a)}
 
 
 def _common() -> dict[str, Any]:
@@ -151,7 +168,10 @@ def render_method(a: MethodAnalysis, build: BuildInfo) -> tuple[dict[str, bytes]
     for f in figures:
         files[f"{here}figures/{f.stem}.svg"] = f.svg
         files[f"{here}figures/{f.stem}.png"] = f.png
-    files[here + "index.html"] = render("method.html", root="../../", build=build, **_page_context(a, figures, table), **_common()).encode()
+    ctx = _page_context(a, figures, table)
+    files[here + "index.html"] = render("method.html", root="../../", build=build, **ctx, **_common()).encode()
+    files[here + "ledger.json"] = (json.dumps(ledger_document(a), indent=2, ensure_ascii=False) + "\n").encode()
+    files[here + "ledger.html"] = render("ledger.html", root="../../", build=build, a=a, ledger=ctx["ledger"]).encode()
     return files, figures
 
 
@@ -171,12 +191,15 @@ def dossier_pdf(analyses: tuple[MethodAnalysis, ...], figures: dict[str, tuple[F
     return {"dossier.pdf": _pdf(html, "", files)}
 
 
-def render_site(analyses: tuple[MethodAnalysis, ...], build: BuildInfo) -> dict[str, bytes]:
-    """The pages about the whole dossier: index, references, calculation methods, provenance."""
+def render_site(analyses: tuple[MethodAnalysis, ...], build: BuildInfo, diff: DossierDiff | None = None) -> dict[str, bytes]:
+    """The pages about the whole dossier: index, references, calculation methods,
+    provenance, and the changes since a previous build when ``diff`` is given."""
     table = load_table()
     out: dict[str, bytes] = {}
     counts = {k: sum(s.verdict.status == k for a in analyses for sa in a.solutions for s in sa.shortcuts) for k in ("pass", "conditional", "fail")}
-    out["index.html"] = render("index.html", root="", build=build, analyses=analyses, counts=counts).encode()
+    out["index.html"] = render("index.html", root="", build=build, analyses=analyses, counts=counts, has_changes=diff is not None).encode()
+    if diff is not None:
+        out["changes.html"] = render("changes.html", root="", build=build, diff=diff).encode()
     out["references.html"] = render(
         "references.html", root="", build=build,
         method_refs=[(a, references_for(a.method, table, prefix=f"{a.method.id}-")) for a in analyses],

@@ -1,0 +1,141 @@
+"""The calculation ledger: every number a report publishes, with an id, its
+value, the equation it came from and the inputs it used.
+
+``ledger.json`` (format ``ph-dossier-ledger/1``, docs/manifest-format.md)
+records the method's inputs as used (:func:`dossier.inputs.serialize.method_to_dict`)
+and the analysis settings, so that every entry can be re-computed from the
+ledger alone; the method page links each published number to its entry.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from .. import __version__
+from ..inputs.serialize import method_to_dict
+from .method import AnalysisSettings, MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
+
+__all__ = ["Entry", "ledger_entries", "ledger_document", "settings_to_dict", "settings_from_dict", "LEDGER_FORMAT", "EQUATIONS"]
+
+LEDGER_FORMAT = "ph-dossier-ledger/1"
+
+EQUATIONS = {
+    "exact-equilibrium": "charge and mass balances with water, activity model, temperature (calculations: the exact equilibrium)",
+    "unit-conversion": "concentration as written, converted to mol/L (pint; mol/kg with the water density, mass units with the molar mass)",
+    "van-t-hoff": "pKa converted to I = 0 and 25 °C, then to the working temperature (van 't Hoff with ΔCp°)",
+    "gum-jcgm-100": "law of propagation of uncertainty, JCGM 100:2008 §5.1.2",
+    "monte-carlo-jcgm-101": "Monte Carlo propagation, JCGM 101:2008, seeded PCG64",
+    "validity-brent": "crossing of the acceptance limit, grid and Brent's method (0.1 % in concentration, 0.001 in pKa)",
+    "working-range-maximum": "largest |error| over the working range, grid and bounded minimization",
+}
+"""What each ``equation`` of a ledger entry means (shortcut entries name the catalogue id)."""
+
+
+@dataclass(frozen=True)
+class Entry:
+    """One published number.
+
+    Attributes
+    ----------
+    id : str
+        Stable id, e.g. ``buffer/henderson-hasselbalch/error``.
+    value : float
+    unit : str
+    quantity : str
+        What it is, in words.
+    equation : str
+        Catalogue id of the shortcut, or a key of :data:`EQUATIONS`.
+    solution : str
+        The solution whose recorded inputs it used.
+    """
+
+    id: str
+    value: float
+    unit: str
+    quantity: str
+    equation: str
+    solution: str
+
+
+def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
+    sid, k = sa.spec.id, s.id
+    base = f"{sid}/{k}" if s.claimed else f"{sid}/appendix/{k}"
+    v = s.validity
+    out = [
+        Entry(f"{base}/ph", s.ph, "pH", f"pH by the shortcut {k}, nominal inputs", k, sid),
+        Entry(f"{base}/error", s.error, "pH", f"error of {k} (shortcut − exact), nominal inputs", k, sid),
+        Entry(f"{base}/max_abs_error", v.max_abs_error, "pH", f"largest |error| of {k} over the working range", "working-range-maximum", sid),
+        Entry(f"{base}/max_abs_error_at", v.max_abs_error_at, "mol/L", "where the largest |error| occurs (first component's total)", "working-range-maximum", sid),
+    ]
+    for i, iv in enumerate(v.concentration_intervals):
+        out.append(Entry(f"{base}/validity_total/{i}/low", iv.low, "mol/L", f"lower end of validity interval {i + 1} (first component's total)", "validity-brent", sid))
+        out.append(Entry(f"{base}/validity_total/{i}/high", iv.high, "mol/L", f"upper end of validity interval {i + 1} (first component's total)", "validity-brent", sid))
+    for i, iv in enumerate(v.pka_intervals):
+        out.append(Entry(f"{base}/validity_pka/{i}/low", iv.low, "pKa", f"lower end of pKa interval {i + 1}", "validity-brent", sid))
+        out.append(Entry(f"{base}/validity_pka/{i}/high", iv.high, "pKa", f"upper end of pKa interval {i + 1}", "validity-brent", sid))
+    if s.claimed:
+        mc = sa.monte_carlo
+        d = mc.errors[k]
+        out += [
+            Entry(f"{base}/u_gum", s.gum.u, "pH", f"combined standard uncertainty of the error of {k} (GUM)", "gum-jcgm-100", sid),  # type: ignore[union-attr]
+            Entry(f"{base}/mc_mean", d.mean, "pH", f"Monte-Carlo mean of the error of {k}", "monte-carlo-jcgm-101", sid),
+            Entry(f"{base}/mc_u", d.u, "pH", f"Monte-Carlo standard deviation of the error of {k}", "monte-carlo-jcgm-101", sid),
+            Entry(f"{base}/mc_coverage_low", d.coverage[0], "pH", "lower end of the 95 % coverage interval of the error", "monte-carlo-jcgm-101", sid),
+            Entry(f"{base}/mc_coverage_high", d.coverage[1], "pH", "upper end of the 95 % coverage interval of the error", "monte-carlo-jcgm-101", sid),
+            Entry(f"{base}/p_exceed", mc.p_exceed[k], "1", "probability that |error| exceeds the limit", "monte-carlo-jcgm-101", sid),
+        ]
+    return out
+
+
+def ledger_entries(analysis: MethodAnalysis) -> tuple[Entry, ...]:
+    """Every number the method's page and PDF publish."""
+    out: list[Entry] = []
+    for sa in analysis.solutions:
+        sid = sa.spec.id
+        for ci, c in enumerate(sa.spec.components):
+            out.append(Entry(f"{sid}/component/{ci}/total", c.concentration, "mol/L", f"total of {c.substance} ({c.concentration_text} as written)", "unit-conversion", sid))
+            for j, p in enumerate(c.pka):
+                out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/thermodynamic", p.thermodynamic, "pKa", f"pKa{j + 1} of {c.substance} at 25 °C and I = 0", "van-t-hoff", sid))
+                out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/at_working_temperature", p.at_working_temperature, "pKa", f"pKa{j + 1} of {c.substance} at the working temperature", "van-t-hoff", sid))
+        e = sa.exact
+        mc = sa.monte_carlo.exact
+        out += [
+            Entry(f"{sid}/exact/ph", e.ph, "pH", "exact pH, activity scale", "exact-equilibrium", sid),
+            Entry(f"{sid}/exact/ph_conc", e.ph_conc, "pH", "exact pH, concentration scale", "exact-equilibrium", sid),
+            Entry(f"{sid}/exact/ionic_strength", e.ionic_strength, "mol/kg", "ionic strength", "exact-equilibrium", sid),
+            Entry(f"{sid}/exact/pkw", e.pkw, "pKw", "pKw at the working temperature (IAPWS R11-07)", "exact-equilibrium", sid),
+            Entry(f"{sid}/exact/u_gum", sa.gum.u, "pH", "combined standard uncertainty of the exact pH (GUM)", "gum-jcgm-100", sid),
+            Entry(f"{sid}/exact/mc_mean", mc.mean, "pH", "Monte-Carlo mean of the exact pH", "monte-carlo-jcgm-101", sid),
+            Entry(f"{sid}/exact/mc_u", mc.u, "pH", "Monte-Carlo standard deviation of the exact pH", "monte-carlo-jcgm-101", sid),
+            Entry(f"{sid}/exact/mc_coverage_low", mc.coverage[0], "pH", "lower end of the 95 % coverage interval of the exact pH", "monte-carlo-jcgm-101", sid),
+            Entry(f"{sid}/exact/mc_coverage_high", mc.coverage[1], "pH", "upper end of the 95 % coverage interval of the exact pH", "monte-carlo-jcgm-101", sid),
+        ]
+        for s in sa.shortcuts + sa.appendix:
+            out += _shortcut_entries(sa, s)
+    return tuple(out)
+
+
+def settings_to_dict(settings: AnalysisSettings) -> dict[str, Any]:
+    return {"draws": settings.draws, "seed": settings.seed, "map_pka": settings.map_pka, "map_conc": settings.map_conc}
+
+
+def settings_from_dict(d: dict[str, Any]) -> AnalysisSettings:
+    return AnalysisSettings(draws=int(d["draws"]), seed=int(d["seed"]), map_pka=int(d["map_pka"]), map_conc=int(d["map_conc"]))
+
+
+def ledger_document(analysis: MethodAnalysis) -> dict[str, Any]:
+    """The ``ledger.json`` document of one method."""
+    verdicts = {f"{sa.spec.id}/{s.id}": s.verdict.status for sa in analysis.solutions for s in sa.shortcuts}  # type: ignore[union-attr]
+    return {
+        "format": LEDGER_FORMAT,
+        "tool_version": __version__,
+        "method": method_to_dict(analysis.method),
+        "settings": settings_to_dict(analysis.settings),
+        "equations": EQUATIONS,
+        "verdicts": verdicts,
+        "entries": [
+            {"id": e.id, "value": e.value, "unit": e.unit, "quantity": e.quantity, "equation": e.equation, "solution": e.solution}
+            for e in ledger_entries(analysis)
+        ],
+    }
