@@ -227,8 +227,8 @@ def _ph_weak_acid_sqrt(s: Solution) -> Number:
 def _ph_weak_acid_quadratic(s: Solution) -> Number:
     pka, c, _ = _weak_acid_parts(s)
     ka = 10.0**-pka
-    h = 2.0 * ka * c / (ka + np.sqrt(ka * ka + 4.0 * ka * c))
-    return _out(-np.log10(h))
+    # h = 2KaC / (Ka + √(Ka² + 4KaC)), in logs so that a tiny C cannot underflow to 0
+    return _out(-(np.log10(2.0 * ka) + np.log10(c) - np.log10(ka + np.sqrt(ka * ka + 4.0 * ka * c))))
 
 
 def _ph_weak_acid_water(s: Solution) -> Number:
@@ -257,24 +257,24 @@ def _ph_base_water(s: Solution) -> Number:
 def _ph_base_quadratic(s: Solution) -> Number:
     pkb, c, pkw = _base_parts(s)
     kb = 10.0**-pkb
-    oh = 2.0 * kb * c / (kb + np.sqrt(kb * kb + 4.0 * kb * c))
-    return _out(pkw + np.log10(oh))
+    return _out(pkw + np.log10(2.0 * kb) + np.log10(c) - np.log10(kb + np.sqrt(kb * kb + 4.0 * kb * c)))
 
 
 def _ph_hh(s: Solution) -> Number:
     pka, _ = working_constants(s)
     pair = _hh_pair(s)
+    # log of each concentration, not of their ratio: the ratio can overflow
     if pair is not None:
         acid, base, step = pair
-        ratio = _np(s.components[base].total) / _np(s.components[acid].total)
-        return _out(_np(pka[0][step - 1]) + np.log10(ratio))
+        log_ratio = np.log10(_np(s.components[base].total)) - np.log10(_np(s.components[acid].total))
+        return _out(_np(pka[0][step - 1]) + log_ratio)
     c = s.components[0]
     total = _np(c.total)
     cb = _np(s.strong_base)
     if np.any(cb > 0):
-        return _out(_np(pka[0][c.removed]) + np.log10(cb / (total - cb)))
+        return _out(_np(pka[0][c.removed]) + np.log10(cb) - np.log10(total - cb))
     ca = _np(s.strong_acid)
-    return _out(_np(pka[0][c.removed - 1]) + np.log10((total - ca) / ca))
+    return _out(_np(pka[0][c.removed - 1]) + np.log10(total - ca) - np.log10(ca))
 
 
 def _ph_ampholyte(s: Solution) -> Number:
@@ -374,11 +374,15 @@ class Approximation:
 
     def why_not(self, solution: Solution) -> str | None:
         """None when the shortcut applies to ``solution``, else the reason in words."""
+        if self.formula:
+            for c in solution.components:
+                if np.any(_np(c.total) <= 0.0):
+                    return f"the concentration of {c.protolyte.name} is zero, where a formula in log C has no value"
         return self._why_not(solution)
 
     def applies(self, solution: Solution) -> bool:
         """Whether the shortcut applies to ``solution``."""
-        return self._why_not(solution) is None
+        return self.why_not(solution) is None
 
     def ph(self, solution: Solution) -> Number:
         """The shortcut's pH (float or array of the solution's shape).
@@ -388,7 +392,7 @@ class Approximation:
         NotApplicable
             When the shortcut does not apply; the message says why.
         """
-        why = self._why_not(solution)
+        why = self.why_not(solution)
         if why is not None:
             raise NotApplicable(self.id, why)
         return self._ph(solution)

@@ -67,7 +67,10 @@ LN10 = float(np.log(10.0))
 TOLERANCE = 1e-12
 """Convergence tolerance on ln h (and relative, on the ionic strength)."""
 _MAX_NEWTON = 200
-_MAX_OUTER = 100
+_MAX_OUTER = 150
+_SECANT_STEPS = 40
+I_CEILING = 1000.0
+"""Largest ionic strength the iteration searches [mol/kg], far beyond any activity model's range."""
 
 
 @dataclass(frozen=True, eq=False)
@@ -188,9 +191,8 @@ def _solve_h(x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
     newton_stop = 0.1 * np.sqrt(tol)
     for it in range(1, _MAX_NEWTON + 1):
         g, dg, _, _, _ = _balance(x, w_kw, w_k, w_c, w_ca, w_cb)
-        above = g > 0.0
-        lo = np.where(above, lo, x)
-        hi = np.where(above, x, hi)
+        lo = np.where(g < 0.0, x, lo)  # a non-finite G (overflow) updates neither end
+        hi = np.where(g > 0.0, x, hi)
         x_new = x - g / dg
         # Newton's step unless it leaves the bracket (or is not finite): bisect.
         newton = (x_new >= lo) & (x_new <= hi)
@@ -384,31 +386,36 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
     residual = np.empty(size)
     fractions = [np.empty((c.protolyte.steps + 1, size)) for c in solution.components]
     iterations = 0
-    for start in range(0, size, CHUNK):
-        sl = slice(start, min(start + CHUNK, size))
-        part = block.take(sl) if shape else block
-        m = sl.stop - sl.start
-        if ideal:
-            args = _kernel_args(part, 0.0)
-            x, its, failed = _solve_h(np.full(m, np.nan), *args, tolerance)
-            what = "the charge balance"
-        else:
-            x, f, its, failed, what = _solve_with_activity(part, m, model.unit_log_gamma, davies, tolerance)
-            args = _kernel_args(part, f)
-        if failed.any():
-            _raise_unconverged(solution, start + int(np.flatnonzero(failed)[0]), int(failed.sum()), what)
-        iterations = max(iterations, its)
-        kw, ks, comps, ca, cb = args
-        _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
-        ionic[sl] = _ionic_strength(x, kw, alphas, comps, ca, cb, part.background)
-        residual[sl] = (p - n) / np.maximum(p, n)
-        np.multiply(x, -1.0 / LN10, out=ph_conc[sl])
-        if not ideal:
-            np.subtract(ph_conc[sl], f, out=ph[sl])
-            log_gamma1[sl] = f
-        for dest, a in zip(fractions, alphas):
-            for j, aj in enumerate(a):
-                dest[j, sl] = aj
+    # Overflow at trial points far from the root is expected and handled by the brackets.
+    with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
+        for start in range(0, size, CHUNK):
+            sl = slice(start, min(start + CHUNK, size))
+            part = block.take(sl) if shape else block
+            m = sl.stop - sl.start
+            if ideal:
+                args = _kernel_args(part, 0.0)
+                x, its, failed = _solve_h(np.full(m, np.nan), *args, tolerance)
+                what = "the charge balance"
+            else:
+                x, f, its, failed, what = _solve_with_activity(part, m, model.unit_log_gamma, davies, tolerance)
+                args = _kernel_args(part, f)
+            if failed.any():
+                _raise_unconverged(solution, start + int(np.flatnonzero(failed)[0]), int(failed.sum()), what)
+            iterations = max(iterations, its)
+            kw, ks, comps, ca, cb = args
+            _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
+            ionic[sl] = _ionic_strength(x, kw, alphas, comps, ca, cb, part.background)
+            residual[sl] = (p - n) / np.maximum(p, n)
+            np.multiply(x, -1.0 / LN10, out=ph_conc[sl])
+            if not ideal:
+                np.subtract(ph_conc[sl], f, out=ph[sl])
+                log_gamma1[sl] = f
+            for dest, a in zip(fractions, alphas):
+                for j, aj in enumerate(a):
+                    dest[j, sl] = aj
+    if not (np.all(np.isfinite(ph)) and np.all(np.isfinite(ionic))):
+        bad = ~(np.isfinite(ph) & np.isfinite(ionic))
+        _raise_unconverged(solution, int(np.flatnonzero(bad)[0]), int(bad.sum()), "the solve (a value overflowed)")
 
     def shaped(v: NDArray[np.float64]) -> Number:
         if not shape:
@@ -451,7 +458,7 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
         i_max = i_max + 0.5 * c.total * (abs(c.charge - c.removed) + zmax**2 + 4.0 * len(c.log_k))
     i_max = np.broadcast_to(i_max, (m,)).astype(np.float64)
     # ... plus water at the conditional ion product reached at that bound.
-    i_max = i_max + 2.0 * np.sqrt(np.power(10.0, block.log_kw - 2.0 * log_gamma(block, i_max)))
+    i_max = i_max + 2.0 * np.sqrt(np.power(10.0, block.log_kw - 2.0 * log_gamma(block, np.minimum(i_max, I_CEILING))))
 
     # Start from the ionic strength of the forms as added.
     i_now = block.background + 0.5 * (block.ca + block.cb)
@@ -460,16 +467,17 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
         i_now = i_now + 0.5 * c.total * (q + q * q)
     i_now = np.broadcast_to(i_now + 1e-7, (m,)).astype(np.float64)
 
+    hi = np.minimum(i_max, I_CEILING)
+    i_now = np.minimum(i_now, hi)
     x_all = np.full(m, np.nan)
     f_all = np.zeros(m)
     lo = np.zeros(m)
-    hi = i_max
     prev_i = np.full(m, np.nan)
     prev_psi = np.full(m, np.nan)
     pos = np.arange(m)
     sub = block
     total_iterations = 0
-    for _ in range(_MAX_OUTER):
+    for outer in range(_MAX_OUTER):
         f = log_gamma(sub, i_now)
         kw, ks, comps, ca, cb = _kernel_args(sub, f)
         x, its, failed = _solve_h(x_all[pos], kw, ks, comps, ca, cb, tol)
@@ -483,17 +491,33 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
         psi = phi - i_now
         x_all[pos] = x
         f_all[pos] = f
-        done = np.abs(psi) <= tol * np.maximum(i_now, phi) + 1e-300
+        scale = np.maximum(i_now, phi)
+        l_, h_ = lo[pos], hi[pos]
+        l_ = np.where(psi > 0.0, i_now, l_)
+        h_ = np.where((psi < 0.0) | ~np.isfinite(psi), i_now, h_)  # an overflow only happens far above the root
+        lo[pos], hi[pos] = l_, h_
+        converged = np.abs(psi) <= tol * scale + 1e-300
+        # The bracket can shrink below what ψ resolves: stop there when ψ is small too.
+        pinched = (h_ - l_ <= 4.0 * tol * scale) & (np.abs(psi) <= 1e-8 * scale)
+        stuck = (h_ - l_ <= 4.0 * tol * scale) & ~(converged | pinched)
+        if stuck.any():
+            bad = np.zeros(m, dtype=bool)
+            bad[pos[stuck]] = True
+            beyond = bool(np.any(l_[stuck] >= I_CEILING * (1 - 1e-9)))
+            why = f"the ionic-strength iteration (the ionic strength passes {I_CEILING:g} mol/kg, beyond the range of any activity model)" if beyond else "the ionic-strength iteration"
+            return x_all, f_all, total_iterations, bad, why
+        done = converged | pinched
         if done.all():
             return x_all, f_all, total_iterations, np.zeros(m, dtype=bool), ""
-        lo[pos] = np.where(psi > 0.0, i_now, lo[pos])
-        hi[pos] = np.where(psi < 0.0, i_now, hi[pos])
         p_i, p_psi = prev_i[pos], prev_psi[pos]
         with np.errstate(divide="ignore", invalid="ignore"):
             secant = i_now - psi * (i_now - p_i) / (psi - p_psi)
-        l_, h_ = lo[pos], hi[pos]
-        nxt = np.where(np.isfinite(secant), secant, phi)
-        nxt = np.where((nxt > l_) & (nxt < h_), nxt, np.where((phi > l_) & (phi < h_), phi, 0.5 * (l_ + h_)))
+        mid = 0.5 * (l_ + h_)
+        if outer >= _SECANT_STEPS:  # safeguard: plain bisection from here on
+            nxt = mid
+        else:
+            nxt = np.where(np.isfinite(secant), secant, phi)
+            nxt = np.where((nxt > l_) & (nxt < h_), nxt, np.where((phi > l_) & (phi < h_), phi, mid))
         prev_i[pos], prev_psi[pos] = i_now, psi
         keep = np.flatnonzero(~done)
         pos, i_now = pos[keep], nxt[keep]
