@@ -590,9 +590,24 @@ def build_parser() -> argparse.ArgumentParser:
 _COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_build, _add_serve, _add_verify, _add_diff, _add_schema, _add_substances]
 
 
+def _terminate_as_interrupt() -> None:
+    """SIGTERM unwinds like Ctrl-C, so that a build removes its staging folder."""
+    import signal
+    import threading
+
+    if threading.current_thread() is not threading.main_thread():
+        return
+
+    def handler(signum: int, frame: object) -> None:
+        raise KeyboardInterrupt
+
+    signal.signal(signal.SIGTERM, handler)
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code (also used by ``python -m dossier``)."""
     parser = build_parser()
+    _terminate_as_interrupt()
     try:
         args = parser.parse_args(argv)
     except SystemExit as exc:  # argparse: --help/--version exit 0, usage errors exit 2
@@ -604,7 +619,8 @@ def main(argv: Sequence[str] | None = None) -> int:
             print(f"dossier {args.command}: {exc}", file=sys.stderr)
         return exc.code
     except KeyboardInterrupt:
-        print(f"dossier {args.command}: interrupted", file=sys.stderr)
+        extra = "; the previous dossier is unchanged" if args.command == "build" else ""
+        print(f"dossier {args.command}: interrupted{extra}", file=sys.stderr)
         return 130
     except Exception as exc:  # a bug: one line, not a traceback, unless asked for
         if os.environ.get("DOSSIER_DEBUG"):

@@ -34,7 +34,7 @@ from .inputs.substances import load_table
 from .problems import Problem
 from .publish.cache import Cache, dossier_key, method_key
 from .publish.manifest import MANIFEST_NAME, dependency_versions, manifest_document, portable_path
-from .publish.staging import staging_folder, swap_into_place
+from .publish.staging import PublishError, check_replaceable, output_lock, remove_stale_staging, staging_folder, swap_into_place
 from .publish.writer import Writer
 from .render.buildinfo import BuildInfo
 
@@ -167,6 +167,14 @@ def build(
         rep.step("method files checked")
     if not inputs.ok or not inputs.methods:
         return BuildOutcome(False, inputs.problems, out, timings=timings)
+    check_replaceable(out)
+    with output_lock(out):
+        remove_stale_staging(out)
+        return _build_locked(inputs, out, settings, pdf, rep, workers, previous, cache, timings)
+
+
+def _build_locked(inputs, out, settings, pdf, rep, workers, previous, cache, timings) -> BuildOutcome:  # noqa: ANN001
+    """The build once the inputs are valid and the output is locked."""
     old_ledgers = _previous_ledgers(previous)
     table = load_table()
     info = BuildInfo(__version__, build_time(), platform.python_version(), dependency_versions(), table.sha256, settings.draws, settings.seed)
@@ -225,7 +233,7 @@ def build(
     for m in methods:
         files.update(results[m.id][1])
     files.update(site)
-    with _timed(timings, "publish"):
+    with _timed(timings, "publish"), _as_publish_error(out):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
             writer = Writer(staging)
@@ -248,6 +256,19 @@ def build(
 
 
 # ---------------------------------------------------------------- helpers
+@contextmanager
+def _as_publish_error(out: Path) -> Iterator[None]:
+    """A file-system error while writing becomes a PublishError that says what and where."""
+    try:
+        yield
+    except PublishError:
+        raise
+    except OSError as exc:
+        where = f" ({exc.filename})" if getattr(exc, "filename", None) else ""
+        raise PublishError(f"cannot write the dossier into {out}: {exc.strerror or exc}{where}") from None
+
+
+
 def _inputs_record(methods: tuple[Method, ...], table_sha256: str) -> list[dict[str, Any]]:
     """Every input file: each method file, and the substance table."""
     from importlib import resources
@@ -315,6 +336,14 @@ def _dossier_pdf_job(analyses, figures, info, files) -> dict[str, bytes]:  # noq
     return dossier_pdf(analyses, figures, info, files)
 
 
+def _worker_init() -> None:
+    """Workers leave Ctrl-C and SIGTERM to the main process, which stops the build cleanly."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
+
+
 def _call(fn, args):  # noqa: ANN001, ANN202
     return fn(*args)
 
@@ -328,7 +357,7 @@ class _Pool:
 
     def __enter__(self) -> _Pool:
         if self.workers > 1:
-            self.executor = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("spawn"))
+            self.executor = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("spawn"), initializer=_worker_init)
         return self
 
     def __exit__(self, *exc: object) -> None:

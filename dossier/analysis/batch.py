@@ -138,7 +138,9 @@ class Input:
         if self.key.startswith("log_c"):
             return np.log10(1.0 + self.half_width * rng.uniform(-1.0, 1.0, n))
         if self.distribution == "normal":
-            return rng.normal(0.0, self.u, n)
+            # truncated at ±8 standard deviations (a change of the distribution below 1e-15),
+            # so that no draw leaves the range the method file was checked for
+            return np.clip(rng.normal(0.0, self.u, n), -8.0 * self.u, 8.0 * self.u)
         return rng.uniform(-self.half_width, self.half_width, n)
 
 

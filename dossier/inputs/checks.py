@@ -206,6 +206,10 @@ def _pka(
     if t_s == REFERENCE_TEMPERATURE and enthalpy is None and conditions.temperature != REFERENCE_TEMPERATURE:
         ctx.warn(loc, f"no enthalpy of ionization: the 25 °C pKa is used unchanged at {conditions.temperature:g} °C")
     at_t = float(pka_at_temperature(pk25, conditions.temperature, enthalpy, heat_capacity))
+    spread = 8.0 * entry.uncertainty if entry.distribution == "normal" else 3.0**0.5 * entry.uncertainty
+    if pk25 - spread < -5.0 or pk25 + spread > 20.0:
+        ctx.add(loc + ("uncertainty",), f"pKa {pk25:.3f} with u = {entry.uncertainty:g} would be drawn outside −5 … 20, the range the engine solves")
+        return None
     if not -4.0 <= pk25 <= 18.0:
         ctx.add(loc, f"converted to 25 °C and I = 0 the pKa is {pk25:.3f}; allowed: −2 … 16 (as stated) and −4 … 18 after conversion")
         return None
@@ -378,6 +382,17 @@ def check_valid_parts(path: str, data: dict, doc: LoadedYaml, table: SubstanceTa
     return ctx.problems
 
 
+_RESERVED_NAMES = re.compile(r"^(con|prn|aux|nul|com[0-9]|lpt[0-9])(\..*)?$", re.IGNORECASE)
+
+
+def _check_ids(ctx: _Ctx, mf: MethodFile) -> None:
+    """Ids become folder and file names: refuse the names some systems reserve."""
+    named = [(("method", "id"), mf.method.id)] + [(("solutions", i, "id"), s.id) for i, s in enumerate(mf.solutions)]
+    for loc, value in named:
+        if _RESERVED_NAMES.match(value) or value.endswith("."):
+            ctx.add(loc, f"{value!r} cannot be a file name on every system (reserved device name, or a trailing dot); choose another id")
+
+
 def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table: SubstanceTable) -> tuple[Method | None, list[Problem]]:
     """Check a typed method file and build the frozen :class:`Method`.
 
@@ -403,6 +418,11 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
     refs = set(mf.references)
     cited: set[str] = set()
+    _check_ids(ctx, mf)
+    if c.temperature - c.temperature_tolerance < 0.0 or c.temperature + c.temperature_tolerance > 100.0:
+        ctx.add(("conditions", "temperature_tolerance"), f"{c.temperature:g} ± {c.temperature_tolerance:g} °C leaves the allowed 0 … 100 °C")
+    if c.background_ionic_strength_tolerance > c.background_ionic_strength:
+        ctx.add(("conditions", "background_ionic_strength_tolerance"), f"± {c.background_ionic_strength_tolerance:g} mol/kg is larger than the background ionic strength itself ({c.background_ionic_strength:g} mol/kg)")
     solutions = _check_solutions(ctx, list(enumerate(mf.solutions)), refs, conditions, cited)
     for key in sorted(refs - cited):
         ctx.warn(("references", key), f"reference {key!r} is not cited by any stated value")

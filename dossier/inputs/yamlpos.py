@@ -38,7 +38,7 @@ class Position:
 class YamlError(Exception):
     """The text is not a YAML document we accept (the message says where and why)."""
 
-    def __init__(self, message: str, position: Position = Position(0, 0)) -> None:
+    def __init__(self, message: str, position: Position = Position(1, 1)) -> None:
         self.position = position
         super().__init__(message)
 
@@ -164,13 +164,13 @@ def load_yaml(text: str | bytes) -> LoadedYaml:
             loader.dispose()
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
-        pos = Position(mark.line + 1, mark.column + 1) if mark else Position(0, 0)
+        pos = Position(mark.line + 1, mark.column + 1) if mark else Position(1, 1)
         problem = exc.problem or exc.context or "invalid YAML"
         if "expected a single document" in str(exc):
             problem = "holds more than one YAML document; one method per file"
         raise YamlError(f"YAML syntax: {problem}", pos) from None
     except yaml.YAMLError as exc:
-        raise YamlError(f"YAML syntax: {exc}", Position(0, 0)) from None
+        raise YamlError(f"YAML syntax: {exc}", Position(1, 1)) from None
     except RecursionError:
         raise YamlError(f"nesting deeper than {MAX_DEPTH} levels; refused", Position(1, 1)) from None
     if node is None:
@@ -180,7 +180,7 @@ def load_yaml(text: str | bytes) -> LoadedYaml:
         conv.out.data = conv.convert(node, (), 0)
     except yaml.constructor.ConstructorError as exc:
         mark = exc.problem_mark
-        pos = Position(mark.line + 1, mark.column + 1) if mark else Position(0, 0)
+        pos = Position(mark.line + 1, mark.column + 1) if mark else Position(1, 1)
         raise YamlError(f"YAML value: {exc.problem}", pos) from None
     except RecursionError:
         raise YamlError(f"nesting deeper than {MAX_DEPTH} levels; refused", Position(1, 1)) from None

@@ -17,7 +17,7 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 from pathlib import Path
 
-__all__ = ["staging_folder", "swap_into_place", "PublishError"]
+__all__ = ["staging_folder", "swap_into_place", "PublishError", "BuildLocked", "output_lock", "check_replaceable", "remove_stale_staging"]
 
 _AT_FDCWD = -100
 _RENAME_EXCHANGE = 2
@@ -25,6 +25,71 @@ _RENAME_EXCHANGE = 2
 
 class PublishError(OSError):
     """The output folder cannot be replaced (the message says why)."""
+
+
+class BuildLocked(PublishError):
+    """Another build is writing the same output."""
+
+
+_KEEP = {"README.md", ".gitkeep"}
+
+
+def check_replaceable(output: Path) -> None:
+    """Refuse to replace a folder that is not a dossier: it would be deleted.
+
+    An output may be new, empty, hold only a README.md or .gitkeep, or be a
+    dossier built before (it has a manifest.json).
+    """
+    if not output.exists():
+        return
+    if not output.is_dir():
+        raise PublishError(f"{output} exists and is not a folder; remove it or choose another output")
+    names = {p.name for p in output.iterdir()}
+    if names and "manifest.json" not in names and not names <= _KEEP:
+        raise PublishError(
+            f"{output} is not empty and is not a dossier built by ph-dossier (no manifest.json): "
+            "building would replace its contents; choose a new or empty folder"
+        )
+
+
+@contextmanager
+def output_lock(output: Path) -> Iterator[None]:
+    """Hold an exclusive lock beside ``output`` for the whole build; refuse if another build holds it."""
+    import fcntl
+
+    out = output.resolve()
+    lock_path = out.with_name(f".{out.name}.lock")
+    try:
+        out.parent.mkdir(parents=True, exist_ok=True)
+        fh = open(lock_path, "a+")
+    except OSError as exc:
+        raise PublishError(f"cannot create the lock {lock_path.name} in {out.parent}: {exc.strerror or exc}") from None
+    try:
+        try:
+            fcntl.flock(fh.fileno(), fcntl.LOCK_EX | fcntl.LOCK_NB)
+        except BlockingIOError:
+            fh.seek(0)
+            holder = fh.read().strip() or "another process"
+            raise BuildLocked(f"another build is writing {output} ({holder}); try again when it has finished") from None
+        fh.seek(0)
+        fh.truncate()
+        fh.write(f"pid {os.getpid()}")
+        fh.flush()
+        yield
+    finally:
+        try:
+            fh.close()
+        except OSError:
+            pass
+
+
+def remove_stale_staging(output: Path) -> None:
+    """Remove staging folders a killed build left behind (call while holding the lock)."""
+    out = output.resolve()
+    for p in out.parent.glob(f".{out.name}.staging-*"):
+        shutil.rmtree(p, ignore_errors=True)
+    for p in out.parent.glob(f".{out.name}.old-*"):
+        shutil.rmtree(p, ignore_errors=True)
 
 
 def _exchange(a: Path, b: Path) -> bool:

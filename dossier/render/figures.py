@@ -48,6 +48,7 @@ SERIES = [("blue", "-", "o"), ("orange", "--", "s"), ("teal", "-.", "^"), ("plum
 ERROR_MAP = LinearSegmentedColormap.from_list("ph-dossier-error", ["#1d4e74", "#2f6690", "#f7f7f7", "#c8671d", "#8a4212"])
 
 _RC = {
+    "text.parse_math": False,  # text from method files is shown as written, never read as mathtext
     "svg.hashsalt": "ph-dossier",
     "svg.fonttype": "none",
     "font.family": "DejaVu Sans",
