@@ -43,8 +43,6 @@ class Variation:
         Working temperature [°C] instead of the method's.
     background : float or array, optional
         Background ionic strength [mol/kg] instead of the method's.
-    activity : str, optional
-        Activity model instead of the method's.
     """
 
     scale: Arr = 1.0
@@ -53,7 +51,6 @@ class Variation:
     pka_shift_all: dict[int, Arr] = field(default_factory=dict)
     temperature: Arr | None = None
     background: Arr | None = None
-    activity: str | None = None
 
 
 def solution_for(spec: SolutionSpec, conditions: ConditionsSpec, variation: Variation | None = None) -> Solution:
@@ -83,7 +80,7 @@ def solution_for(spec: SolutionSpec, conditions: ConditionsSpec, variation: Vari
     return Solution(
         comps,
         temperature=conditions.temperature if v.temperature is None else v.temperature,
-        activity=v.activity or conditions.activity,
+        activity=conditions.activity,
         strong_acid=spec.strong_acid * v.scale,
         strong_base=spec.strong_base * v.scale,
         background=conditions.background if v.background is None else v.background,

@@ -31,7 +31,7 @@ from numpy.typing import NDArray
 from scipy.optimize import brentq, minimize_scalar
 
 from ..chemistry import CATALOGUE, Approximation, Solution, equilibrium
-from ..chemistry.approximations import _hh_pair
+from ..chemistry.approximations import buffer_pair
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import TOTAL_MAX, Variation, solution_for
 
@@ -185,7 +185,7 @@ def key_step(approx_id: str, spec: SolutionSpec) -> tuple[int, int]:
     if approx_id == "ampholyte-mean":
         return (0, c0.removed - 1)
     if approx_id == "henderson-hasselbalch":
-        pair = _hh_pair(spec.to_solution(ConditionsSpec(25.0, 0.0, "ideal", 0.0)))
+        pair = buffer_pair(spec.to_solution(ConditionsSpec(25.0, 0.0, "ideal", 0.0)))
         if pair is not None:
             return (0, pair[2] - 1)
         return (0, c0.removed if spec.strong_base > 0 else c0.removed - 1)

@@ -19,11 +19,12 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from ..chemistry import CATALOGUE
+from ..inputs.units import format_concentration
 from ..inputs.model import Method, SolutionSpec
 from .montecarlo import McResult
 from .validity import ValidityResult
 
-__all__ = ["Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_concentration", "format_percent"]
+__all__ = ["Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_percent"]
 
 PASS, FAIL, CONDITIONAL = "pass", "fail", "conditional"
 
@@ -45,14 +46,6 @@ class Verdict:
     status: str
     condition: str
     reasons: tuple[str, ...]
-
-
-def format_concentration(c: float) -> str:
-    """A concentration in the unit that reads best (mol/L, mmol/L, µmol/L, nmol/L)."""
-    for factor, unit in ((1.0, "mol/L"), (1e-3, "mmol/L"), (1e-6, "µmol/L"), (1e-9, "nmol/L")):
-        if c >= factor * 0.9995:
-            return f"{c / factor:.3g} {unit}"
-    return f"{c:.3g} mol/L"
 
 
 def _range(a: float, b: float) -> str:

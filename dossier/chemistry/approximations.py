@@ -40,6 +40,7 @@ from .water import pkw as pkw_iapws
 
 __all__ = [
     "Approximation",
+    "buffer_pair",
     "CATALOGUE",
     "NotApplicable",
     "approximation",
@@ -155,8 +156,9 @@ def _same_protolyte(a: Protolyte, b: Protolyte) -> bool:
     )
 
 
-def _hh_pair(s: Solution) -> tuple[int, int, int] | None:
-    """(acid index, base index, step) for an acid and its conjugate base, if present."""
+def buffer_pair(s: Solution) -> tuple[int, int, int] | None:
+    """(acid component, base component, step) when the solution is an acid and its
+    conjugate base (two forms of one substance one proton apart), else None."""
     if len(s.components) != 2:
         return None
     c0, c1 = s.components
@@ -171,7 +173,7 @@ def _hh_pair(s: Solution) -> tuple[int, int, int] | None:
 
 def _hh_applies(s: Solution) -> str | None:
     ca, cb = _np(s.strong_acid), _np(s.strong_base)
-    if _hh_pair(s) is not None:
+    if buffer_pair(s) is not None:
         return _no_strong(s)
     if len(s.components) == 1:
         c = s.components[0]
@@ -262,7 +264,7 @@ def _ph_base_quadratic(s: Solution) -> Number:
 
 def _ph_hh(s: Solution) -> Number:
     pka, _ = working_constants(s)
-    pair = _hh_pair(s)
+    pair = buffer_pair(s)
     # log of each concentration, not of their ratio: the ratio can overflow
     if pair is not None:
         acid, base, step = pair

@@ -32,7 +32,7 @@ from pydantic import ValidationError
 
 from .schema import ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
 from .substances import Substance, SubstanceTable
-from .units import UnitError, parse_concentration
+from .units import UnitError, format_concentration, parse_concentration
 from .yamlpos import LoadedYaml
 
 __all__ = ["build_method", "CONCENTRATION_LIMITS"]
@@ -75,13 +75,6 @@ def dotted(loc: Loc) -> str:
     return out
 
 
-def _fmt_conc(c: float) -> str:
-    for factor, unit in ((1.0, "mol/L"), (1e-3, "mmol/L"), (1e-6, "µmol/L")):
-        if c >= factor or unit == "µmol/L":
-            return f"{c / factor:.4g} {unit}"
-    return f"{c:g} mol/L"  # pragma: no cover
-
-
 _PERCENT = re.compile(r"^\s*([0-9.eE+-]+)\s*%\s*$")
 
 
@@ -119,7 +112,7 @@ def _tolerance(ctx: _Ctx, loc: Loc, text: str | None, nominal: float, molar_mass
         ctx.add(loc, f"{exc}; or a percentage such as '2 %'")
         return None
     if tol >= nominal:
-        ctx.add(loc, f"tolerance {text!r} is not smaller than the nominal concentration ({_fmt_conc(nominal)})")
+        ctx.add(loc, f"tolerance {text!r} is not smaller than the nominal concentration ({format_concentration(nominal)})")
         return None
     return tol
 
@@ -271,7 +264,7 @@ def _component(ctx: _Ctx, loc: Loc, comp: ComponentIn, refs: set[str], condition
         elif not lo * (1 - 1e-12) <= conc <= hi * (1 + 1e-12):
             ctx.add(
                 loc + ("working_range",),
-                f"working range {_fmt_conc(lo)} … {_fmt_conc(hi)} does not contain the nominal concentration {_fmt_conc(conc)}",
+                f"working range {format_concentration(lo)} … {format_concentration(hi)} does not contain the nominal concentration {format_concentration(conc)}",
             )
             ok = False
     pkas = []

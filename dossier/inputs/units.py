@@ -22,7 +22,7 @@ from functools import lru_cache
 
 from ..chemistry.water import water_density
 
-__all__ = ["UnitError", "Concentration", "parse_concentration", "ALLOWED_UNITS"]
+__all__ = ["UnitError", "Concentration", "parse_concentration", "format_concentration", "ALLOWED_UNITS"]
 
 ALLOWED_UNITS = "mol/L, mmol/L, µmol/L (or umol/L), mol/kg, mg/L or g/L (with a molar mass), % w/v (with a molar mass)"
 
@@ -134,3 +134,11 @@ def parse_concentration(text: str | float | int, *, molar_mass: float | None = N
     except Exception:
         pass
     raise UnitError(f"{raw!r} is not a concentration (allowed: {ALLOWED_UNITS})")
+
+
+def format_concentration(c: float) -> str:
+    """A concentration in the unit that reads best (mol/L, mmol/L, µmol/L, nmol/L)."""
+    for factor, unit in ((1.0, "mol/L"), (1e-3, "mmol/L"), (1e-6, "µmol/L"), (1e-9, "nmol/L")):
+        if c >= factor * 0.9995:
+            return f"{c / factor:.3g} {unit}"
+    return f"{c:.3g} mol/L"

@@ -28,7 +28,7 @@ from matplotlib.figure import Figure  # noqa: E402
 
 from .. import __version__  # noqa: E402
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis  # noqa: E402
-from ..analysis.verdicts import format_concentration  # noqa: E402
+from ..inputs.units import format_concentration  # noqa: E402
 
 __all__ = ["PALETTE", "FigureFile", "method_figures", "figure_bytes"]
 

@@ -14,7 +14,8 @@ import jinja2
 from markdown_it import MarkdownIt
 from markupsafe import Markup
 
-from ..analysis.verdicts import format_concentration, format_percent
+from ..analysis.verdicts import format_percent
+from ..inputs.units import format_concentration
 
 __all__ = ["environment", "render", "markdown", "templates_dir", "reference_key", "CAUTIONS", "STATUS_MARK"]
 
