@@ -226,6 +226,12 @@ def relative_permittivity(temperature: ArrayLike) -> float | NDArray[np.float64]
     return _scalar_or_array(c0 + t * (c1 + t * (c2 + t * c3)))
 
 
+def _state(temperature: ArrayLike) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
+    """(T [K], density [kg/m³], relative permittivity) of water at t [°C]."""
+    t = _as_float_array(temperature)
+    return t + KELVIN, _as_float_array(water_density(t)), _as_float_array(relative_permittivity(t))
+
+
 def debye_huckel_a(temperature: ArrayLike) -> float | NDArray[np.float64]:
     r"""Debye–Hückel limiting-law constant A (base-10, molality scale).
 
@@ -260,10 +266,7 @@ def debye_huckel_a(temperature: ArrayLike) -> float | NDArray[np.float64]:
        (Butterworths, 1959), Appendix 7.1.
     .. [2] C. G. Malmberg and A. A. Maryott, J. Res. Natl. Bur. Stand. 56, 1 (1956).
     """
-    t = _as_float_array(temperature)
-    T = t + KELVIN
-    rho = _as_float_array(water_density(t))  # kg/m^3
-    eps = _as_float_array(relative_permittivity(t))
+    T, rho, eps = _state(temperature)
     bjerrum = _E**2 / (4.0 * np.pi * _EPS0 * eps * _K_B * T)  # [m]
     a = np.sqrt(2.0 * np.pi * _N_A * rho) * bjerrum**1.5 / np.log(10.0)
     return _scalar_or_array(a)
@@ -295,9 +298,6 @@ def debye_huckel_b(temperature: ArrayLike) -> float | NDArray[np.float64]:
     .. [1] R. A. Robinson and R. H. Stokes, Electrolyte Solutions, 2nd ed.
        (Butterworths, 1959), Appendix 7.1.
     """
-    t = _as_float_array(temperature)
-    T = t + KELVIN
-    rho = _as_float_array(water_density(t))
-    eps = _as_float_array(relative_permittivity(t))
+    T, rho, eps = _state(temperature)
     b = np.sqrt(2.0 * _N_A * rho * _E**2 / (_EPS0 * eps * _K_B * T))  # [1/m (kg/mol)^½]
     return _scalar_or_array(b * 1e-10)

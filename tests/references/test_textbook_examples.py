@@ -28,7 +28,7 @@ def test_hcl_1e_8_hill_petrucci() -> None:
 
 
 def test_hf_quadratic_brown_lemay_bursten() -> None:
-    # Lecture slides for Brown, LeMay & Bursten, Chemistry: The Central
+    # Course slides accompanying Brown, LeMay & Bursten, Chemistry: The Central
     # Science, ch. 16 (read at public.asu.edu): 0.100 M HF, Ka 7.0e-4,
     # [H3O+] = 8.02e-3 M, pH 2.096.
     s = Solution([Component(_acid(7.0e-4), 0.100)], pkw=14.0)
