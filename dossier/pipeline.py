@@ -187,44 +187,33 @@ def _build_locked(inputs, out, settings, pdf, rep, workers, previous, cache, tim
     n_workers = max(1, min(workers if workers else (os.cpu_count() or 1), max(len(todo), 1)))
 
     with _Pool(n_workers if todo else 1) as pool:
-        with _timed(timings, "analyse, plot and render methods"):
+        with _timed(timings, "analyse, plot and render methods" + (" (pages and PDFs)" if pdf else "")):
             rep.stage("analysing and rendering methods", len(todo))
-            fresh = pool.run(_method_job, [(m, settings, info) for m in todo], [m.id for m in todo], rep)
-        results = {m.id: r for m, r in zip(todo, fresh)}
-        results.update({mid: (c[0], c[1], c[2]) for mid, c in cached.items() if c is not None})
-        analyses = tuple(results[m.id][0] for m in methods)
-        new_ledgers = {m.id: _ledger_of(results[m.id][1], m.id) for m in methods}
-        diff = _diff(old_ledgers, new_ledgers, previous)
-        site_key = dossier_key([keys[m.id] for m in methods], {"pdf": pdf, "diff": _diff_key(diff)})
-        site = store.get("dossier", site_key) if store else None
-        assets: dict[str, bytes] | None = None
-        if todo or site is None:
-            from .render.site import shared_assets
+            order = sorted(todo, key=_expected_cost, reverse=True)  # longest first: the workers finish together
+            fresh = pool.run(_method_job, [(m, settings, info, pdf) for m in order], [m.id for m in order], rep)
+    results = {m.id: r for m, r in zip(order, fresh)}
+    results.update({mid: (c[0], c[1], c[2]) for mid, c in cached.items() if c is not None})
+    analyses = tuple(results[m.id][0] for m in methods)
+    new_ledgers = {m.id: _ledger_of(results[m.id][1], m.id) for m in methods}
+    diff = _diff(old_ledgers, new_ledgers, previous)
+    site_key = dossier_key([keys[m.id] for m in methods], {"pdf": pdf, "diff": _diff_key(diff)})
+    site = store.get("dossier", site_key) if store else None
+    assets: dict[str, bytes] = {}
+    if site is None:
+        from .render.site import shared_assets
 
-            assets = shared_assets()
-        if pdf:
-            with _timed(timings, "PDF"):
-                jobs, labels = [], []
-                if site is None:
-                    everything = dict(assets or {})
-                    for _, method_files, _ in results.values():
-                        everything.update(method_files)
-                    jobs.append((_dossier_pdf_job, (analyses, {m.id: results[m.id][2] for m in methods}, info, everything)))
-                    labels.append("whole dossier")
-                for m in todo:
-                    a, method_files, figs = results[m.id]
-                    jobs.append((_method_pdf_job, (a, figs, info, {**(assets or {}), **method_files})))
-                    labels.append(m.id)
-                rep.stage("writing PDFs", len(jobs))
-                for label, part in zip(labels, pool.run(_call, jobs, labels, rep)):
-                    if label == "whole dossier":
-                        site = dict(part)
-                    else:
-                        results[label][1].update(part)
+        assets = shared_assets()
+    if pdf and site is None:
+        with _timed(timings, "bind the dossier PDF"):
+            from .render.site import dossier_pdf
+
+            rep.stage("binding the dossier PDF", 1)
+            site = dossier_pdf(analyses, {m.id: results[m.id][1][_method_pdf_path(m.id)] for m in methods}, info, assets)
+            rep.step("dossier.pdf")
     if site is None or "index.html" not in site:
         from .render.site import render_site
 
-        site = {**(site or {}), **(assets or {}), **render_site(analyses, info, diff)}
+        site = {**(site or {}), **assets, **render_site(analyses, info, diff)}
     if store:
         for m in todo:
             store.put("methods", keys[m.id], results[m.id])
@@ -313,27 +302,26 @@ def _diff_key(diff) -> str | None:  # noqa: ANN001
     return hashlib.sha256(repr(diff).encode()).hexdigest()
 
 
-def _method_job(method: Method, settings: AnalysisSettings, info: BuildInfo) -> tuple[MethodAnalysis, dict[str, bytes], tuple]:
-    """Everything one method needs but its PDF, in one process: analysis, figures, page, ledger."""
+def _method_job(method: Method, settings: AnalysisSettings, info: BuildInfo, pdf: bool) -> tuple[MethodAnalysis, dict[str, bytes], tuple]:
+    """Everything of one method, in one process: analysis, figures, page, ledger and (with ``pdf``) its PDF."""
     from .analysis.method import analyse_method
-    from .render.site import render_method
+    from .render.site import method_pdf, render_method, shared_assets
 
     analysis = analyse_method(method, settings)
     files, figures = render_method(analysis, info)
+    if pdf:
+        files.update(method_pdf(analysis, figures, info, {**shared_assets(), **files}))
     return analysis, files, figures
 
 
-def _method_pdf_job(analysis, figures, info, files) -> dict[str, bytes]:  # noqa: ANN001
-    from .render.site import method_pdf
+def _expected_cost(method: Method) -> int:
+    """A rough relative cost of a method's job, only to start the longest jobs first:
+    per solution, (1 + claimed shortcuts) × (1 + ionization steps)."""
+    return sum((1 + len(s.shortcuts)) * (1 + sum(len(c.pka) for c in s.components)) for s in method.solutions)
 
-    return method_pdf(analysis, figures, info, files)
 
-
-def _dossier_pdf_job(analyses, figures, info, files) -> dict[str, bytes]:  # noqa: ANN001
-    """The dossier PDF, with the site pages and assets it comes with (cached together)."""
-    from .render.site import dossier_pdf
-
-    return dossier_pdf(analyses, figures, info, files)
+def _method_pdf_path(method_id: str) -> str:
+    return f"methods/{method_id}/{method_id}.pdf"
 
 
 def _worker_init() -> None:
@@ -342,10 +330,6 @@ def _worker_init() -> None:
 
     signal.signal(signal.SIGINT, signal.SIG_IGN)
     signal.signal(signal.SIGTERM, signal.SIG_DFL)
-
-
-def _call(fn, args):  # noqa: ANN001, ANN202
-    return fn(*args)
 
 
 class _Pool:

@@ -9,6 +9,7 @@ from __future__ import annotations
 import json
 import mimetypes
 from dataclasses import dataclass
+from functools import lru_cache
 from importlib import resources
 from typing import TYPE_CHECKING, Any
 
@@ -138,15 +139,27 @@ def _fetcher(files: dict[str, bytes]) -> Any:
     return fetch
 
 
-def _pdf(html: str, base: str, files: dict[str, bytes]) -> bytes:
-    """A PDF from HTML whose relative URLs resolve, under ``base``, to ``files`` only (no network)."""
+def _document(html: str, base: str, files: dict[str, bytes]) -> Any:
+    """A laid-out WeasyPrint document from HTML whose relative URLs resolve,
+    under ``base``, to ``files`` only (no network)."""
     from weasyprint import HTML  # imported lazily: slow to import
 
-    return HTML(string=html, base_url=_ROOT_URL + base, url_fetcher=_fetcher(files)).write_pdf()
+    return HTML(string=html, base_url=_ROOT_URL + base, url_fetcher=_fetcher(files)).render()
+
+
+def _pdf(html: str, base: str, files: dict[str, bytes]) -> bytes:
+    """A PDF from HTML (see :func:`_document`)."""
+    return _document(html, base, files).write_pdf()
 
 
 def shared_assets() -> dict[str, bytes]:
-    """Files every page needs: README, stylesheets, equation images."""
+    """Files every page needs: README, stylesheets, equation images (a new dict
+    each call; drawn once per process)."""
+    return dict(_shared_assets())
+
+
+@lru_cache(maxsize=1)
+def _shared_assets() -> dict[str, bytes]:
     files: dict[str, bytes] = {"README.md": OUTPUT_README.encode()}
     files["assets/site.css"] = _asset("site.css")
     files["assets/pdf.css"] = _asset("pdf.css")
@@ -178,17 +191,41 @@ def render_method(a: MethodAnalysis, build: BuildInfo) -> tuple[dict[str, bytes]
 def method_pdf(a: MethodAnalysis, figures: tuple[FigureFile, ...], build: BuildInfo, files: dict[str, bytes]) -> dict[str, bytes]:
     """The PDF of one method ({path: bytes}); ``files`` must hold its figures and the assets."""
     mid = a.method.id
-    html = render("pdf_method.html", root="../../", build=build, **_page_context(a, figures, load_table(), prefix="m-"), **_common())
+    html = render("pdf_method.html", root="../../", build=build, **_page_context(a, figures, load_table(), prefix=f"{mid}-"), **_common())
     return {f"methods/{mid}/{mid}.pdf": _pdf(html, f"methods/{mid}/", files)}
 
 
-def dossier_pdf(analyses: tuple[MethodAnalysis, ...], figures: dict[str, tuple[FigureFile, ...]], build: BuildInfo, files: dict[str, bytes]) -> dict[str, bytes]:
-    """The PDF of the whole dossier ({path: bytes})."""
-    table = load_table()
-    items = [_page_context(a, figures[a.method.id], table, prefix=f"{a.method.id}-") for a in analyses]
-    toc = [(f"{a.method.id}-method", f"{a.method.id} — {a.method.title}", 1) for a in analyses] + [("signatures", "Signatures", 1)]
-    html = render("pdf_dossier.html", root="", build=build, analyses=analyses, items=items, toc=toc, **_common())
-    return {"dossier.pdf": _pdf(html, "", files)}
+def dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], build: BuildInfo, files: dict[str, bytes]) -> dict[str, bytes]:
+    """The PDF of the whole dossier ({path: bytes}), bound from the method PDFs.
+
+    The dossier's front matter (cover, contents, verdicts at a glance) and
+    back matter (signatures) are laid out here, once; the method reports
+    (``reports``: method id → PDF bytes) are bound in between as they are
+    (:mod:`~dossier.render.binder`). The contents name dossier pages, so the
+    front matter is laid out again in the rare case that its own length
+    differs from the first guess.
+    """
+    from .binder import BoundReport, bind, page_count
+
+    lengths = [page_count(reports[a.method.id]) for a in analyses]
+    n_front = 2  # cover and contents, the usual case
+    for _ in range(4):
+        starts, page = {}, n_front + 1
+        for a, n in zip(analyses, lengths):
+            starts[a.method.id] = page
+            page += n
+        doc = _document(render("pdf_dossier.html", root="", build=build, analyses=analyses, starts=starts, signatures_page=page, **_common()), "", files)
+        split = next(i for i, pg in enumerate(doc.pages) if "dossier-signatures" in pg.anchors)
+        if split == n_front:
+            break
+        n_front = split
+    else:  # pragma: no cover - the length of the front matter does not depend on three-digit page numbers
+        raise RuntimeError("the dossier's front matter did not settle to a fixed length")
+    front = doc.copy(doc.pages[:split]).write_pdf()
+    back = doc.copy(doc.pages[split:]).write_pdf()
+    bound = bind(front, [BoundReport(a.method.id, a.method.title, reports[a.method.id]) for a in analyses], back,
+                 title="pH calculation dossier", creator=f"ph-dossier {build.version}")
+    return {"dossier.pdf": bound}
 
 
 def render_site(analyses: tuple[MethodAnalysis, ...], build: BuildInfo, diff: DossierDiff | None = None) -> dict[str, bytes]:

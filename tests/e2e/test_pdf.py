@@ -31,6 +31,53 @@ def test_dossier_pdf_holds_every_method_verdict_and_page_numbers(built: Path) ->
     assert "does not replace measurement" in text
 
 
+def test_every_dossier_page_carries_its_dossier_page_number(built: Path) -> None:
+    reader = PdfReader(str(built / "dossier.pdf"))
+    total = len(reader.pages)
+    for n, page in enumerate(reader.pages, start=1):
+        stamps = re.findall(r"dossier page (\d+) of (\d+)", page.extract_text() or "")
+        assert stamps == [(str(n), str(total))], (n, stamps)
+
+
+def test_dossier_contents_name_the_page_where_each_report_starts(built: Path) -> None:
+    reader = PdfReader(str(built / "dossier.pdf"))
+    contents = reader.pages[1].extract_text() or ""
+    assert "Contents" in contents
+    for mid in method_ids():
+        found = re.search(rf"{re.escape(mid)} — .*?\.{{3,}} ?(\d+)", contents, re.S)
+        assert found, mid
+        start = int(found.group(1))
+        cover = reader.pages[start - 1].extract_text() or ""
+        assert f"Method {mid}, revision" in cover, (mid, start)
+        assert "page 1 of" in cover.replace(f"dossier page {start} of", "")  # the report's own numbering starts again
+
+
+def test_dossier_links_and_outline_resolve(built: Path) -> None:
+    reader = PdfReader(str(built / "dossier.pdf"))
+    names = reader.named_destinations
+    index = {p.indirect_reference.idnum: i for i, p in enumerate(reader.pages)}
+    from_contents = set()
+    for i, page in enumerate(reader.pages):
+        for ref in page.get("/Annots") or []:
+            annot = ref.get_object()
+            if annot.get("/Subtype") != "/Link":
+                continue
+            assert "/A" not in annot, f"page {i + 1}: a link that is not to a page of the dossier: {annot['/A']}"
+            dest = annot["/Dest"]
+            if isinstance(dest, str):
+                assert dest in names, f"page {i + 1}: link to a missing destination {dest!r}"
+            else:
+                assert dest[0].idnum in index, f"page {i + 1}: link to a page outside the dossier"
+                if i == 1:
+                    from_contents.add(index[dest[0].idnum])
+    covers = {mid: next(j for j in sorted(from_contents) if f"Method {mid}, revision" in (reader.pages[j].extract_text() or "")) for mid in method_ids()}
+    assert len(set(covers.values())) == len(method_ids())
+    assert len(reader.pages) - 1 in from_contents  # the dossier's signature page
+    titles = [item["/Title"] for item in reader.outline if not isinstance(item, list)]
+    for mid in method_ids():
+        assert any(t.startswith(f"{mid} — ") for t in titles), mid
+
+
 @pytest.mark.parametrize("mid", method_ids())
 def test_method_pdf(built: Path, mid: str) -> None:
     text, pages = text_of(built / "methods" / mid / f"{mid}.pdf")
