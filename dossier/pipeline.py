@@ -205,10 +205,10 @@ def _build_locked(inputs, out, settings, pdf, rep, workers, previous, cache, tim
         assets = shared_assets()
     if pdf and site is None:
         with _timed(timings, "bind the dossier PDF"):
-            from .render.site import dossier_pdf
+            from .render.site import dossier_pdf, method_pdf_path
 
             rep.stage("binding the dossier PDF", 1)
-            site = dossier_pdf(analyses, {m.id: results[m.id][1][_method_pdf_path(m.id)] for m in methods}, info, assets)
+            site = dossier_pdf(analyses, {m.id: results[m.id][1][method_pdf_path(m.id)] for m in methods}, info, assets)
             rep.step("dossier.pdf")
     if site is None or "index.html" not in site:
         from .render.site import render_site
@@ -318,10 +318,6 @@ def _expected_cost(method: Method) -> int:
     """A rough relative cost of a method's job, only to start the longest jobs first:
     per solution, (1 + claimed shortcuts) × (1 + ionization steps)."""
     return sum((1 + len(s.shortcuts)) * (1 + sum(len(c.pka) for c in s.components)) for s in method.solutions)
-
-
-def _method_pdf_path(method_id: str) -> str:
-    return f"methods/{method_id}/{method_id}.pdf"
 
 
 def _worker_init() -> None:

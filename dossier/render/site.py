@@ -27,7 +27,7 @@ from .html import render
 if TYPE_CHECKING:
     from ..publish.diff import DossierDiff
 
-__all__ = ["BuildInfo", "RefView", "shared_assets", "render_method", "method_pdf", "dossier_pdf", "render_site", "OUTPUT_README", "references_for"]
+__all__ = ["BuildInfo", "RefView", "shared_assets", "render_method", "method_pdf", "method_pdf_path", "dossier_pdf", "render_site", "OUTPUT_README", "references_for"]
 
 OUTPUT_README = """# output/
 
@@ -188,11 +188,16 @@ def render_method(a: MethodAnalysis, build: BuildInfo) -> tuple[dict[str, bytes]
     return files, figures
 
 
+def method_pdf_path(method_id: str) -> str:
+    """Where a method's PDF is in the dossier."""
+    return f"methods/{method_id}/{method_id}.pdf"
+
+
 def method_pdf(a: MethodAnalysis, figures: tuple[FigureFile, ...], build: BuildInfo, files: dict[str, bytes]) -> dict[str, bytes]:
     """The PDF of one method ({path: bytes}); ``files`` must hold its figures and the assets."""
     mid = a.method.id
     html = render("pdf_method.html", root="../../", build=build, **_page_context(a, figures, load_table(), prefix=f"{mid}-"), **_common())
-    return {f"methods/{mid}/{mid}.pdf": _pdf(html, f"methods/{mid}/", files)}
+    return {method_pdf_path(mid): _pdf(html, f"methods/{mid}/", files)}
 
 
 def dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], build: BuildInfo, files: dict[str, bytes]) -> dict[str, bytes]:
