@@ -57,7 +57,9 @@ def check_site(browser, base: str, built: Path) -> None:  # noqa: ANN001
     links: list[tuple[str, str]] = []
     for rel in pages(built):
         url = urllib.parse.urljoin(base, rel)
-        page.goto(url, wait_until="load")
+        # Wait until no request is in flight (the favicon is fetched after "load"), so that
+        # opening the next page never cuts one off and every request is judged on its outcome.
+        page.goto(url, wait_until="networkidle")
         broken = page.evaluate("""() => [...document.images].filter(i => !i.complete || i.naturalWidth === 0).map(i => i.src)""")
         assert not broken, (rel, broken)
         untitled = page.evaluate("""() => [...document.images].filter(i => !i.alt || i.alt.length < 5).map(i => i.src)""")
