@@ -42,7 +42,7 @@ class PkaCurves:
 
 def error_map(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, *, n_pka: int = 121, n_conc: int = 141) -> ErrorMap:
     """The error on a pKa × concentration grid, in one vectorized call (whole solution scaled)."""
-    shifts, key, same = pka_shifts(approx_id, spec, n_pka)
+    shifts, key, same = pka_shifts(approx_id, spec, conditions, n_pka)
     c0 = spec.components[0].concentration
     scales = concentration_scales(spec, n_conc)
     sol = solution_for(spec, conditions, Variation(scale=scales[None, :], pka_shift_all={i: shifts[:, None] for i in same}))
@@ -52,7 +52,7 @@ def error_map(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, *,
 
 def pka_curves(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, *, n_pka: int = 181) -> PkaCurves:
     """Error against pKa at the nominal concentration and at 1/100, 1/10, 10× and 100× it (where allowed)."""
-    shifts, key, same = pka_shifts(approx_id, spec, n_pka)
+    shifts, key, same = pka_shifts(approx_id, spec, conditions, n_pka)
     c0 = spec.components[0].concentration
     biggest = max(c.concentration for c in spec.components)
     factors = np.array([f for f in (0.01, 0.1, 1.0, 10.0, 100.0) if 1e-10 <= f * c0 and f * biggest <= TOTAL_MAX])

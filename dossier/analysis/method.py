@@ -108,7 +108,7 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
     eq = equilibrium(nominal)
     exact = ExactResult(float(eq.ph), float(eq.ph_conc), float(eq.ionic_strength), float(eq.pkw), float(debye_huckel_a(c.temperature)))
     claimed = spec.shortcuts
-    keys = {sid: key_step(sid, spec) for sid in claimed}
+    keys = {sid: key_step(sid, spec, c) for sid in claimed}
     gum_exact, gum_errors = gum(claimed, spec, c, keys)
     mc = monte_carlo(claimed, spec, c, limit, draws=settings.draws, seed=settings.seed, spawn_key=(index,))
     shortcuts = []

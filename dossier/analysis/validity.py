@@ -31,7 +31,6 @@ from numpy.typing import NDArray
 from scipy.optimize import brentq, minimize_scalar
 
 from ..chemistry import CATALOGUE, Approximation, Solution, equilibrium
-from ..chemistry.approximations import buffer_pair
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import TOTAL_MAX, Variation, solution_for
 
@@ -174,29 +173,16 @@ def error_at(approx: Approximation, spec: SolutionSpec, conditions: ConditionsSp
     return approx.error(sol)
 
 
-def key_step(approx_id: str, spec: SolutionSpec) -> tuple[int, int]:
-    """(component, step) of the pKa a shortcut uses: the one its pKa sweep varies."""
-    c0 = spec.components[0]
-    n = len(c0.pka)
-    if approx_id in ("weak-base-square-root", "weak-base-quadratic", "conjugate-base-square-root"):
-        return (0, n - 1)
-    if approx_id == "first-step-only":
-        return (0, 0 if c0.removed == 0 else n - 1)
-    if approx_id == "ampholyte-mean":
-        return (0, c0.removed - 1)
-    if approx_id == "henderson-hasselbalch":
-        pair = buffer_pair(spec.to_solution(ConditionsSpec(25.0, 0.0, "ideal", 0.0)))
-        if pair is not None:
-            return (0, pair[2] - 1)
-        return (0, c0.removed if spec.strong_base > 0 else c0.removed - 1)
-    return (0, 0)
+def key_step(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[int, int]:
+    """(component, step) of the pKa a shortcut uses (the catalogue says which): the one its pKa sweep varies."""
+    return CATALOGUE[approx_id].key_step(solution_for(spec, conditions))
 
 
-def pka_shifts(approx_id: str, spec: SolutionSpec, n: int) -> tuple[NDArray[np.float64], float, list[int]]:
+def pka_shifts(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, n: int) -> tuple[NDArray[np.float64], float, list[int]]:
     """Shifts that sweep the key step's pKa over −2 … 16 (every pKa of the
     substance kept within the engine's −5 … 20); the key pKa; the components
     of that substance."""
-    k, j = key_step(approx_id, spec)
+    k, j = key_step(approx_id, spec, conditions)
     pks = [p.thermodynamic for p in spec.components[k].pka]
     key = pks[j]
     lo = max(PKA_SPAN[0] - key, -5.0 - min(pks))
@@ -319,8 +305,8 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
     conc_iv = _intervals(x_conc, err, parts, limit, refine_conc, refine_parts_conc)
 
     # pKa sweep of the key step (all steps of that substance shifted alike)
-    k, j = key_step(approx_id, spec)
-    shifts, key, same = pka_shifts(approx_id, spec, PKA_POINTS)
+    k, j = key_step(approx_id, spec, conditions)
+    shifts, key, same = pka_shifts(approx_id, spec, conditions, PKA_POINTS)
     exact_p, err_p, parts_p = _errors(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: shifts for i in same})))
 
     def err_pka(value: float) -> float:

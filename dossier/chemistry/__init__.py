@@ -6,8 +6,8 @@ The public names below are the stable API (see docs/api.md).
 """
 
 from .activity import MODELS as ACTIVITY_MODELS
-from .approximations import CATALOGUE, Approximation, NotApplicable, applicable, approximation, working_constants
-from .activity import ActivityModel, activity_model, log_gamma, log_gamma_unit
+from .approximations import CATALOGUE, Approximation, Constants, NotApplicable, StatedConstants, applicable, approximation, working_constants
+from .activity import ActivityModel, activity_model, conditional_pka, log_gamma, log_gamma_unit, thermodynamic_pka
 from .errors import ChemistryError, ConvergenceError, InputRangeError
 from .solver import Equilibrium, equilibrium
 from .species import Component, Protolyte, Solution
@@ -17,6 +17,8 @@ from .water import debye_huckel_a, debye_huckel_b, pkw, pkw_iapws, relative_perm
 __all__ = [
     "CATALOGUE",
     "Approximation",
+    "Constants",
+    "StatedConstants",
     "NotApplicable",
     "applicable",
     "approximation",
@@ -31,6 +33,8 @@ __all__ = [
     "Protolyte",
     "Solution",
     "activity_model",
+    "conditional_pka",
+    "thermodynamic_pka",
     "debye_huckel_a",
     "debye_huckel_b",
     "equilibrium",

@@ -49,6 +49,10 @@ __all__ = [
     "activity_model",
     "log_gamma_unit",
     "log_gamma",
+    "CONVENTIONS",
+    "pka_shift_at_ionic_strength",
+    "thermodynamic_pka",
+    "conditional_pka",
 ]
 
 DAVIES_COEFFICIENT = 0.3
@@ -257,3 +261,116 @@ def log_gamma(
     0.8617
     """
     return charge * charge * log_gamma_unit(ionic_strength, temperature, model, **options)
+
+
+CONVENTIONS = ("mixed", "concentration")
+"""Conventions of a pKa stated at I > 0: the mixed (Brønsted) constant
+K″ = a(H⁺)[A]/[HA], as a pH meter measures it, and the concentration constant
+K′ = [H⁺][A]/[HA]."""
+
+
+def pka_shift_at_ionic_strength(
+    ionic_strength: ArrayLike,
+    temperature: ArrayLike,
+    base_charge: int,
+    model: str,
+    convention: str = "mixed",
+    *,
+    davies_coefficient: float = DAVIES_COEFFICIENT,
+    ion_size: float | None = None,
+) -> NDArray[np.float64]:
+    r"""pK (thermodynamic) − pK (conditional at ionic strength I) of one step.
+
+    For the step HA ⇌ H⁺ + A with the base A of charge z (the acid HA has
+    z + 1) and log10 γ_z = z² f(I):
+
+    .. math::
+        \mathrm{p}K = \mathrm{p}K' + 2z\,f(I)
+        \quad\text{(concentration constant } K' = [\mathrm{H^+}][\mathrm{A}]/[\mathrm{HA}])
+
+        \mathrm{p}K = \mathrm{p}K'' + (2z + 1)\,f(I)
+        \quad\text{(mixed constant } K'' = a(\mathrm{H^+})[\mathrm{A}]/[\mathrm{HA}])
+
+    Parameters
+    ----------
+    ionic_strength : float or array
+        I [mol/kg] at which the conditional constant holds.
+    temperature : float or array
+        [°C]; sets the Debye–Hückel A (and B).
+    base_charge : int
+        Charge z of the base form of the step (e.g. −2 for HPO₄²⁻ in the
+        second step of phosphoric acid, 0 for ammonia).
+    model : str
+        Activity-model id.
+    convention : str
+        ``mixed`` or ``concentration``.
+
+    Returns
+    -------
+    array
+        pK − pK(conditional) [dimensionless].
+
+    Examples
+    --------
+    Second step of phosphoric acid (z = −2), mixed constant at I = 0.1 mol/kg,
+    Davies, 25 °C: the thermodynamic pK is 0.32 above the mixed one
+    (−3 f with f = log10 γ(z = ±1) = −0.107):
+
+    >>> round(float(pka_shift_at_ionic_strength(0.1, 25.0, -2, "davies")), 3)
+    0.322
+
+    References
+    ----------
+    .. [1] R. G. Bates, Determination of pH, 2nd ed. (Wiley, 1973), ch. 4
+       (mixed and concentration constants).
+    .. [2] R. N. Goldberg, N. Kishore and R. M. Lennen, J. Phys. Chem. Ref.
+       Data 31, 231 (2002), section on the ionic-strength dependence.
+    """
+    if convention not in CONVENTIONS:
+        raise InputRangeError("convention", f"must be one of {', '.join(CONVENTIONS)}; got {convention!r}")
+    f = log_gamma_unit(ionic_strength, temperature, model, davies_coefficient=davies_coefficient, ion_size=ion_size)
+    return (2.0 * base_charge + (1.0 if convention == "mixed" else 0.0)) * f
+
+
+def thermodynamic_pka(
+    stated: ArrayLike,
+    ionic_strength: ArrayLike,
+    temperature: ArrayLike,
+    base_charge: int,
+    model: str,
+    convention: str = "mixed",
+    **options: float | None,
+) -> float | NDArray[np.float64]:
+    """The thermodynamic pKa (I → 0) of a pKa stated at ionic strength I.
+
+    ``stated + pka_shift_at_ionic_strength(...)``; see
+    :func:`pka_shift_at_ionic_strength` for the equations and parameters.
+
+    Examples
+    --------
+    >>> round(thermodynamic_pka(6.86, 0.1, 25.0, -2, "davies"), 2)
+    7.18
+    """
+    out = np.asarray(stated, dtype=np.float64) + pka_shift_at_ionic_strength(ionic_strength, temperature, base_charge, model, convention, **options)
+    return float(out) if out.ndim == 0 else out
+
+
+def conditional_pka(
+    thermodynamic: ArrayLike,
+    ionic_strength: ArrayLike,
+    temperature: ArrayLike,
+    base_charge: int,
+    model: str,
+    convention: str = "mixed",
+    **options: float | None,
+) -> float | NDArray[np.float64]:
+    """The conditional pKa at ionic strength I of a thermodynamic pKa (the inverse
+    of :func:`thermodynamic_pka`).
+
+    Examples
+    --------
+    >>> round(conditional_pka(7.198, 0.1, 25.0, -2, "davies"), 3)
+    6.876
+    """
+    out = np.asarray(thermodynamic, dtype=np.float64) - pka_shift_at_ionic_strength(ionic_strength, temperature, base_charge, model, convention, **options)
+    return float(out) if out.ndim == 0 else out

@@ -7,8 +7,15 @@ exact pH is the activity-scale pH of :func:`~dossier.chemistry.equilibrium`.
 
 All shortcuts use the constants at the solution's temperature (pKa by van 't
 Hoff, pKw from IAPWS R11-07 or the stated override) and concentrations in
-place of activities; the assumption that the 25 °C constants hold at another
-temperature is a shortcut of its own (``constants-at-25c``).
+place of activities, unless the procedure states the constants its own
+calculation uses (:class:`StatedConstants`: a mixed pKa″ at the working ionic
+strength, the 25 °C value at 37 °C, Kw = 1e-14); the assumption that the 25 °C
+constants hold at another temperature is also a shortcut of its own
+(``constants-at-25c``).
+
+Each shortcut knows which of the first component's steps its equation uses
+(``steps``; the *key step* is the one a pKa sweep varies) and whether pKw
+enters it (``uses_pkw``).
 
 Symbols: C total concentration of the (single) component [mol/L]; Ka, Kb the
 acid and base constants of the step involved, Kb = Kw/Ka; h = [H⁺].
@@ -35,11 +42,12 @@ import numpy as np
 from .errors import InputRangeError
 from .solver import Equilibrium, equilibrium
 from .species import Component, Number, Protolyte, Solution
-from .temperature import pka_at_temperature
 from .water import pkw as pkw_iapws
 
 __all__ = [
     "Approximation",
+    "Constants",
+    "StatedConstants",
     "buffer_pair",
     "CATALOGUE",
     "NotApplicable",
@@ -62,38 +70,76 @@ def _out(v: np.ndarray) -> Number:
     return float(v) if v.ndim == 0 else v
 
 
-def working_constants(solution: Solution) -> tuple[list[list[Number]], Number]:
-    """pKa values of every component and pKw at the solution's temperature.
+@dataclass(frozen=True)
+class StatedConstants:
+    """The constants a procedure's own calculation puts into a shortcut.
+
+    Attributes
+    ----------
+    pka : tuple of (float or None)
+        One entry per step of the first component: the procedure's value, or
+        None for the model's value (thermodynamic, at the working temperature).
+        Empty: every step takes the model's value.
+    pkw : float, optional
+        The procedure's pKw (e.g. 14.0); None: the model's value.
+    """
+
+    pka: tuple[float | None, ...] = ()
+    pkw: float | None = None
+
+    @property
+    def empty(self) -> bool:
+        """True when the procedure states no constant of its own."""
+        return self.pkw is None and all(v is None for v in self.pka)
+
+
+@dataclass(frozen=True)
+class Constants:
+    """The constants a shortcut's equation is evaluated with.
+
+    ``pka[k][i]``: pKa of step i + 1 of component k; ``pkw``: pKw. Each a float
+    or an array of the solution's shape.
+    """
+
+    pka: tuple[tuple[Number, ...], ...]
+    pkw: Number
+
+
+def working_constants(solution: Solution, stated: StatedConstants | None = None) -> Constants:
+    """The constants a shortcut uses: the model's values at the solution's
+    temperature, replaced by the procedure's own where it states them.
 
     Parameters
     ----------
     solution : Solution
+    stated : StatedConstants, optional
+        The procedure's values (first component's steps, pKw).
 
     Returns
     -------
-    (list of list of float or array, float or array)
+    Constants
         ``pka[k][i]``: pKa of step i + 1 of component k at the temperature
-        (van 't Hoff where ΔH° is known); pKw (the override when given).
+        (van 't Hoff where ΔH° is known, :meth:`Protolyte.pka_at`) or as
+        stated; pKw (the solution's override, IAPWS R11-07, or as stated).
 
     Examples
     --------
     >>> sol = Solution([Component(Protolyte("tris", (8.072,), charge=1, dh=(47.45,)), 0.05)], temperature=37.0)
-    >>> pka, pkw = working_constants(sol)
-    >>> round(pka[0][0], 2), round(pkw, 3)
+    >>> k = working_constants(sol)
+    >>> round(k.pka[0][0], 2), round(k.pkw, 3)
     (7.75, 13.621)
+    >>> working_constants(sol, StatedConstants(pka=(8.07,), pkw=14.0)).pka[0][0]
+    8.07
     """
-    t = solution.temperature
-    pkas = []
-    for c in solution.components:
-        p = c.protolyte
-        pkas.append(
-            [
-                pka_at_temperature(pk, t, p.dh[i] if p.dh else None, p.dcp[i] if p.dcp else None)
-                for i, pk in enumerate(p.pka)
-            ]
-        )
-    pkw = solution.pkw if solution.pkw is not None else pkw_iapws(t)
-    return pkas, pkw
+    pkas = [list(c.protolyte.pka_at(solution.temperature)) for c in solution.components]
+    pkw = solution.pkw if solution.pkw is not None else pkw_iapws(solution.temperature)
+    if stated is not None:
+        for i, v in enumerate(stated.pka):
+            if v is not None and pkas:
+                pkas[0][i] = v
+        if stated.pkw is not None:
+            pkw = stated.pkw
+    return Constants(tuple(tuple(p) for p in pkas), pkw)
 
 
 def _no_strong(solution: Solution) -> str | None:
@@ -145,24 +191,13 @@ def _ampholyte_applies(s: Solution) -> str | None:
     return None
 
 
-def _same_protolyte(a: Protolyte, b: Protolyte) -> bool:
-    if a is b:
-        return True
-    return (
-        a.name == b.name
-        and a.charge == b.charge
-        and a.steps == b.steps
-        and all(np.array_equal(_np(x), _np(y)) for x, y in zip(a.pka, b.pka))
-    )
-
-
 def buffer_pair(s: Solution) -> tuple[int, int, int] | None:
     """(acid component, base component, step) when the solution is an acid and its
     conjugate base (two forms of one substance one proton apart), else None."""
     if len(s.components) != 2:
         return None
     c0, c1 = s.components
-    if not _same_protolyte(c0.protolyte, c1.protolyte):
+    if not c0.protolyte.is_same_substance(c1.protolyte):
         return None
     if c1.removed == c0.removed + 1:
         return 0, 1, c1.removed
@@ -215,74 +250,97 @@ def _at_25_applies(s: Solution) -> str | None:
     return None
 
 
+# ---------------------------------------------------------------- which step each shortcut uses
+def _first_step(s: Solution) -> int:
+    return 0
+
+
+def _last_step(s: Solution) -> int:
+    return s.components[0].protolyte.steps - 1
+
+
+def _first_or_last_step(s: Solution) -> int:
+    c = s.components[0]
+    return 0 if c.removed == 0 else c.protolyte.steps - 1
+
+
+def _ampholyte_steps(s: Solution) -> tuple[int, ...]:
+    r = s.components[0].removed
+    return (r - 1, r)
+
+
+def _hh_step(s: Solution) -> int:
+    """The step of the conjugate pair: between the two forms, or the one the strong acid or base titrates."""
+    pair = buffer_pair(s)
+    if pair is not None:
+        return pair[2] - 1
+    c = s.components[0]
+    return c.removed if np.any(_np(s.strong_base) > 0) else c.removed - 1
+
+
 # ---------------------------------------------------------------- pH formulas
-def _weak_acid_parts(s: Solution) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    pka, pkw = working_constants(s)
-    return _np(pka[0][0]), _np(s.components[0].total), _np(pkw)
+def _weak_acid_parts(s: Solution, k: Constants) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    return _np(k.pka[0][0]), _np(s.components[0].total), _np(k.pkw)
 
 
-def _ph_weak_acid_sqrt(s: Solution) -> Number:
-    pka, c, _ = _weak_acid_parts(s)
+def _ph_weak_acid_sqrt(s: Solution, k: Constants) -> Number:
+    pka, c, _ = _weak_acid_parts(s, k)
     return _out(0.5 * (pka - np.log10(c)))
 
 
-def _ph_weak_acid_quadratic(s: Solution) -> Number:
-    pka, c, _ = _weak_acid_parts(s)
+def _ph_weak_acid_quadratic(s: Solution, k: Constants) -> Number:
+    pka, c, _ = _weak_acid_parts(s, k)
     ka = 10.0**-pka
     # h = 2KaC / (Ka + √(Ka² + 4KaC)), in logs so that a tiny C cannot underflow to 0
     return _out(-(np.log10(2.0 * ka) + np.log10(c) - np.log10(ka + np.sqrt(ka * ka + 4.0 * ka * c))))
 
 
-def _ph_weak_acid_water(s: Solution) -> Number:
-    pka, c, pkw = _weak_acid_parts(s)
+def _ph_weak_acid_water(s: Solution, k: Constants) -> Number:
+    pka, c, pkw = _weak_acid_parts(s, k)
     return _out(-0.5 * np.log10(10.0**-pka * c + 10.0**-pkw))
 
 
-def _base_parts(s: Solution) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    pka, pkw = working_constants(s)
+def _base_parts(s: Solution, k: Constants) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     c = s.components[0]
-    pk_last = _np(pka[0][c.protolyte.steps - 1])
-    pkw = _np(pkw)
+    pk_last = _np(k.pka[0][c.protolyte.steps - 1])
+    pkw = _np(k.pkw)
     return pkw - pk_last, _np(c.total), pkw
 
 
-def _ph_base_sqrt(s: Solution) -> Number:
-    pkb, c, pkw = _base_parts(s)
+def _ph_base_sqrt(s: Solution, k: Constants) -> Number:
+    pkb, c, pkw = _base_parts(s, k)
     return _out(pkw - 0.5 * (pkb - np.log10(c)))
 
 
-def _ph_base_water(s: Solution) -> Number:
-    pkb, c, pkw = _base_parts(s)
+def _ph_base_water(s: Solution, k: Constants) -> Number:
+    pkb, c, pkw = _base_parts(s, k)
     return _out(pkw + 0.5 * np.log10(10.0**-pkb * c + 10.0**-pkw))
 
 
-def _ph_base_quadratic(s: Solution) -> Number:
-    pkb, c, pkw = _base_parts(s)
+def _ph_base_quadratic(s: Solution, k: Constants) -> Number:
+    pkb, c, pkw = _base_parts(s, k)
     kb = 10.0**-pkb
     return _out(pkw + np.log10(2.0 * kb) + np.log10(c) - np.log10(kb + np.sqrt(kb * kb + 4.0 * kb * c)))
 
 
-def _ph_hh(s: Solution) -> Number:
-    pka, _ = working_constants(s)
+def _ph_hh(s: Solution, k: Constants) -> Number:
+    pka = _np(k.pka[0][_hh_step(s)])
     pair = buffer_pair(s)
     # log of each concentration, not of their ratio: the ratio can overflow
     if pair is not None:
-        acid, base, step = pair
-        log_ratio = np.log10(_np(s.components[base].total)) - np.log10(_np(s.components[acid].total))
-        return _out(_np(pka[0][step - 1]) + log_ratio)
-    c = s.components[0]
-    total = _np(c.total)
+        acid, base, _ = pair
+        return _out(pka + np.log10(_np(s.components[base].total)) - np.log10(_np(s.components[acid].total)))
+    total = _np(s.components[0].total)
     cb = _np(s.strong_base)
     if np.any(cb > 0):
-        return _out(_np(pka[0][c.removed]) + np.log10(cb) - np.log10(total - cb))
+        return _out(pka + np.log10(cb) - np.log10(total - cb))
     ca = _np(s.strong_acid)
-    return _out(_np(pka[0][c.removed - 1]) + np.log10(total - ca) - np.log10(ca))
+    return _out(pka + np.log10(total - ca) - np.log10(ca))
 
 
-def _ph_ampholyte(s: Solution) -> Number:
-    pka, _ = working_constants(s)
-    r = s.components[0].removed
-    return _out(0.5 * (_np(pka[0][r - 1]) + _np(pka[0][r])))
+def _ph_ampholyte(s: Solution, k: Constants) -> Number:
+    a, b = _ampholyte_steps(s)
+    return _out(0.5 * (_np(k.pka[0][a]) + _np(k.pka[0][b])))
 
 
 def _first_step_solution(s: Solution) -> Solution:
@@ -305,11 +363,11 @@ def _first_step_solution(s: Solution) -> Solution:
     return replace(s, components=tuple(comps))
 
 
-def _ph_first_step(s: Solution) -> Number:
+def _ph_first_step(s: Solution, k: Constants) -> Number:
     return equilibrium(_first_step_solution(s)).ph
 
 
-def _ph_ideal(s: Solution) -> Number:
+def _ph_ideal(s: Solution, k: Constants) -> Number:
     return equilibrium(replace(s, activity="ideal")).ph
 
 
@@ -321,7 +379,7 @@ def _at_25_solution(s: Solution) -> Solution:
     return replace(s, components=comps, pkw=pkw25)
 
 
-def _ph_at_25(s: Solution) -> Number:
+def _ph_at_25(s: Solution, k: Constants) -> Number:
     return equilibrium(_at_25_solution(s)).ph
 
 
@@ -346,9 +404,12 @@ class Approximation:
         Where the formula is published.
     formula : bool
         True for a closed-form textbook formula (which also takes
-        concentrations for activities); False for the exact-solution
-        variants (first-step-only, ideal-activity, constants-at-25c), whose
-        error is their one assumption's alone.
+        concentrations for activities, and may be evaluated with the
+        procedure's own constants); False for the exact-solution variants
+        (first-step-only, ideal-activity, constants-at-25c), whose error is
+        their one assumption's alone.
+    uses_pkw : bool
+        Whether pKw enters the equation.
     partials : tuple of (label, pH function)
         Single-assumption relatives (see :meth:`partial_ph`).
     """
@@ -360,11 +421,36 @@ class Approximation:
     applies_when: str
     reference: str
     _why_not: Callable[[Solution], str | None]
-    _ph: Callable[[Solution], Number]
+    _ph: Callable[[Solution, Constants], Number]
+    _steps: Callable[[Solution], tuple[int, ...]]
+    _key_step: Callable[[Solution], int]
     formula: bool = True
-    partials: tuple[tuple[str, Callable[[Solution], Number]], ...] = ()
+    uses_pkw: bool = False
+    partials: tuple[tuple[str, Callable[[Solution, Constants], Number]], ...] = ()
 
-    def partial_ph(self, solution: Solution) -> dict[str, Number]:
+    def steps(self, solution: Solution) -> tuple[int, ...]:
+        """Steps (0-based) of the first component whose pKa the equation uses."""
+        return self._steps(solution)
+
+    def key_step(self, solution: Solution) -> tuple[int, int]:
+        """(component, step) of the pKa the shortcut turns on: the one a pKa
+        sweep varies and the named ∂/∂pKa differentiates (0-based)."""
+        return (0, self._key_step(solution))
+
+    def constants_used(self, solution: Solution, stated: StatedConstants | None = None) -> tuple[tuple[Number | None, ...], Number | None]:
+        """The values put into the equation: (first component's pKa per step,
+        None where the equation does not use a step; pKw or None).
+
+        Empty for an exact-solution variant, whose "equation" is the whole model.
+        """
+        if not self.formula:
+            return (), None
+        k = working_constants(solution, stated)
+        used = set(self.steps(solution))
+        pka = tuple(v if i in used else None for i, v in enumerate(k.pka[0]))
+        return pka, (k.pkw if self.uses_pkw else None)
+
+    def partial_ph(self, solution: Solution, stated: StatedConstants | None = None) -> dict[str, Number]:
         """pH of each single-assumption relative of the shortcut (see ``partials``).
 
         A shortcut that makes two assumptions (the square-root formulas:
@@ -372,7 +458,8 @@ class Approximation:
         making only that one; their errors show whether the shortcut holds
         only because two errors cancel. Empty for the other shortcuts.
         """
-        return {label: fn(solution) for label, fn in self.partials}
+        k = working_constants(solution, stated)
+        return {label: fn(solution, k) for label, fn in self.partials}
 
     def why_not(self, solution: Solution) -> str | None:
         """None when the shortcut applies to ``solution``, else the reason in words."""
@@ -386,20 +473,36 @@ class Approximation:
         """Whether the shortcut applies to ``solution``."""
         return self.why_not(solution) is None
 
-    def ph(self, solution: Solution) -> Number:
+    def ph(self, solution: Solution, stated: StatedConstants | None = None) -> Number:
         """The shortcut's pH (float or array of the solution's shape).
+
+        Parameters
+        ----------
+        solution : Solution
+        stated : StatedConstants, optional
+            The constants the procedure's own calculation uses, where it
+            states them (formula shortcuts only).
 
         Raises
         ------
         NotApplicable
             When the shortcut does not apply; the message says why.
+        InputRangeError
+            When constants are stated for an exact-solution variant, or for a
+            step the first component does not have.
         """
         why = self.why_not(solution)
         if why is not None:
             raise NotApplicable(self.id, why)
-        return self._ph(solution)
+        if stated is not None and not stated.empty:
+            if not self.formula:
+                raise InputRangeError(self.id, "the procedure's own constants apply to a formula; this shortcut is an exact solution with one assumption changed")
+            steps = solution.components[0].protolyte.steps
+            if len(stated.pka) > steps:
+                raise InputRangeError(self.id, f"{len(stated.pka)} stated pKa values for a component with {steps} step(s)")
+        return self._ph(solution, working_constants(solution, stated))
 
-    def error(self, solution: Solution, exact: Equilibrium | None = None) -> Number:
+    def error(self, solution: Solution, exact: Equilibrium | None = None, stated: StatedConstants | None = None) -> Number:
         """Approximate pH − exact pH (activity scale).
 
         Parameters
@@ -407,6 +510,9 @@ class Approximation:
         solution : Solution
         exact : Equilibrium, optional
             The solved equilibrium of ``solution``, if already at hand.
+        stated : StatedConstants, optional
+            The procedure's own constants (see :meth:`ph`); the exact pH
+            always uses the thermodynamic model.
 
         Examples
         --------
@@ -418,12 +524,21 @@ class Approximation:
         >>> round(CATALOGUE["weak-acid-square-root"].error(s), 3)
         -0.091
         """
-        approx = _np(self.ph(solution))
+        approx = _np(self.ph(solution, stated))
         ex = exact if exact is not None else equilibrium(solution)
         return _out(approx - _np(ex.ph))
 
 
 _T = "D. C. Harris, Quantitative Chemical Analysis, 9th ed. (2015); D. A. Skoog et al., Fundamentals of Analytical Chemistry, 9th ed. (2014)"
+
+
+def _one(step: Callable[[Solution], int]) -> Callable[[Solution], tuple[int, ...]]:
+    return lambda s: (step(s),)
+
+
+def _all_steps(s: Solution) -> tuple[int, ...]:
+    return tuple(range(s.components[0].protolyte.steps))
+
 
 CATALOGUE: dict[str, Approximation] = {
     a.id: a
@@ -441,6 +556,8 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _weak_acid_applies,
             _ph_weak_acid_sqrt,
+            _one(_first_step),
+            _first_step,
             partials=(("dissociation neglected", _ph_weak_acid_water), ("water neglected", _ph_weak_acid_quadratic)),
         ),
         Approximation(
@@ -452,6 +569,8 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _weak_acid_applies,
             _ph_weak_acid_quadratic,
+            _one(_first_step),
+            _first_step,
         ),
         Approximation(
             "weak-acid-water-corrected",
@@ -462,6 +581,9 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _weak_acid_applies,
             _ph_weak_acid_water,
+            _one(_first_step),
+            _first_step,
+            uses_pkw=True,
         ),
         Approximation(
             "weak-base-square-root",
@@ -476,6 +598,9 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _base_applies(neutral=True),
             _ph_base_sqrt,
+            _one(_last_step),
+            _last_step,
+            uses_pkw=True,
             partials=(("reaction with water neglected", _ph_base_water), ("water's own OH⁻ neglected", _ph_base_quadratic)),
         ),
         Approximation(
@@ -487,6 +612,9 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _base_applies(neutral=True),
             _ph_base_quadratic,
+            _one(_last_step),
+            _last_step,
+            uses_pkw=True,
         ),
         Approximation(
             "conjugate-base-square-root",
@@ -501,6 +629,9 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _base_applies(neutral=False),
             _ph_base_sqrt,
+            _one(_last_step),
+            _last_step,
+            uses_pkw=True,
             partials=(("hydrolysis neglected", _ph_base_water), ("water's own OH⁻ neglected", _ph_base_quadratic)),
         ),
         Approximation(
@@ -516,6 +647,8 @@ CATALOGUE: dict[str, Approximation] = {
             "L. J. Henderson, Am. J. Physiol. 21, 173 (1908); K. A. Hasselbalch, Biochem. Z. 78, 112 (1916)",
             _hh_applies,
             _ph_hh,
+            _one(_hh_step),
+            _hh_step,
         ),
         Approximation(
             "ampholyte-mean",
@@ -529,6 +662,8 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _ampholyte_applies,
             _ph_ampholyte,
+            _ampholyte_steps,
+            lambda s: s.components[0].removed - 1,
         ),
         Approximation(
             "first-step-only",
@@ -539,6 +674,8 @@ CATALOGUE: dict[str, Approximation] = {
             _T,
             _first_step_applies,
             _ph_first_step,
+            _one(_first_or_last_step),
+            _first_or_last_step,
             formula=False,
         ),
         Approximation(
@@ -550,6 +687,8 @@ CATALOGUE: dict[str, Approximation] = {
             "R. G. Bates, Determination of pH, 2nd ed. (Wiley, 1973)",
             _ideal_applies,
             _ph_ideal,
+            _all_steps,
+            _first_step,
             formula=False,
         ),
         Approximation(
@@ -561,6 +700,8 @@ CATALOGUE: dict[str, Approximation] = {
             "J. H. van 't Hoff, Études de dynamique chimique (1884); R. N. Goldberg et al., J. Phys. Chem. Ref. Data 31, 231 (2002)",
             _at_25_applies,
             _ph_at_25,
+            _all_steps,
+            _first_step,
             formula=False,
         ),
     )

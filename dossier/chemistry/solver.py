@@ -57,7 +57,6 @@ from numpy.typing import NDArray
 from .activity import BATES_GUGGENHEIM_BA, activity_model
 from .errors import ConvergenceError
 from .species import Number, Solution
-from .temperature import pka_at_temperature
 from .water import debye_huckel_a, debye_huckel_b
 from .water import pkw as pkw_iapws_01mpa
 
@@ -278,13 +277,8 @@ def _prepare(solution: Solution, shape: tuple[int, ...]) -> _Block:
     log_kw = -np.asarray(solution.pkw if solution.pkw is not None else pkw_iapws_01mpa(t), dtype=np.float64)
     comps = []
     for comp in solution.components:
-        p = comp.protolyte
-        log_k = []
-        for i, pk in enumerate(p.pka):
-            dh = p.dh[i] if p.dh else None
-            dcp = p.dcp[i] if p.dcp else None
-            log_k.append(_flat(-np.asarray(pka_at_temperature(pk, t, dh, dcp)), shape))
-        comps.append(_Comp(_flat(comp.total, shape), log_k, comp.removed, p.charge))
+        log_k = [_flat(-np.asarray(pk), shape) for pk in comp.protolyte.pka_at(t)]
+        comps.append(_Comp(_flat(comp.total, shape), log_k, comp.removed, comp.protolyte.charge))
     if solution.activity == "ideal":
         a_dh, ba = np.asarray(0.0), np.asarray(0.0)
     else:

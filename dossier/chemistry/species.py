@@ -26,8 +26,10 @@ from dataclasses import dataclass, field
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from .. import limits
 from .activity import DAVIES_COEFFICIENT, MODELS
 from .errors import InputRangeError
+from .temperature import pka_at_temperature
 
 __all__ = [
     "PKA_LIMITS",
@@ -40,19 +42,19 @@ __all__ = [
     "Solution",
 ]
 
-PKA_LIMITS = (-5.0, 20.0)
+PKA_LIMITS = limits.PKA_ENGINE
 """Allowed pKa values (at 25 °C) [dimensionless]."""
-TOTAL_LIMITS = (0.0, 20.0)
+TOTAL_LIMITS = limits.TOTAL_ENGINE
 """Allowed concentrations of components, strong acid and strong base [mol/L]."""
-BACKGROUND_LIMITS = (0.0, 10.0)
+BACKGROUND_LIMITS = limits.BACKGROUND_ENGINE
 """Allowed background ionic strength [mol/kg]."""
-TEMPERATURE_LIMITS = (0.0, 100.0)
+TEMPERATURE_LIMITS = limits.TEMPERATURE
 """Allowed temperatures [°C]."""
-PKW_LIMITS = (10.0, 18.0)
+PKW_LIMITS = limits.PKW_OVERRIDE
 """Allowed override of pKw [dimensionless]."""
-MAX_STEPS = 6
+MAX_STEPS = limits.MAX_STEPS
 """Largest number of ionization steps of one protolyte."""
-CHARGE_LIMITS = (-6, 6)
+CHARGE_LIMITS = limits.CHARGE
 
 Number = float | NDArray[np.float64]
 
@@ -169,8 +171,8 @@ class Protolyte:
             raise InputRangeError(f"Protolyte({self.name}).charge", f"must be an integer in {CHARGE_LIMITS[0]} … {CHARGE_LIMITS[1]}; got {self.charge!r}")
         object.__setattr__(self, "pka", pka)
         object.__setattr__(self, "charge", int(self.charge))
-        object.__setattr__(self, "dh", _optional_steps(f"Protolyte({self.name}).dh", self.dh, len(pka), -300.0, 300.0, "kJ/mol"))
-        object.__setattr__(self, "dcp", _optional_steps(f"Protolyte({self.name}).dcp", self.dcp, len(pka), -2000.0, 2000.0, "J/(K·mol)"))
+        object.__setattr__(self, "dh", _optional_steps(f"Protolyte({self.name}).dh", self.dh, len(pka), *limits.ENTHALPY, "kJ/mol"))
+        object.__setattr__(self, "dcp", _optional_steps(f"Protolyte({self.name}).dcp", self.dcp, len(pka), *limits.HEAT_CAPACITY, "J/(K·mol)"))
 
     @property
     def steps(self) -> int:
@@ -180,6 +182,30 @@ class Protolyte:
     def charges(self) -> tuple[int, ...]:
         """Charge of each protonation state j = 0 … n (j protons removed)."""
         return tuple(self.charge - j for j in range(self.steps + 1))
+
+    def pka_at(self, temperature: ArrayLike) -> tuple[Number, ...]:
+        """Thermodynamic pKa of every step at ``temperature`` [°C] (van 't Hoff
+        with ΔCp°, :func:`~dossier.chemistry.temperature.pka_at_temperature`;
+        a step without ΔH° keeps its 25 °C value).
+
+        Examples
+        --------
+        >>> [round(p, 3) for p in Protolyte("tris", (8.072,), charge=1, dh=(47.45,)).pka_at(37.0)]
+        [7.75]
+        """
+        return tuple(
+            pka_at_temperature(pk, temperature, self.dh[i] if self.dh else None, self.dcp[i] if self.dcp else None)
+            for i, pk in enumerate(self.pka)
+        )
+
+    def is_same_substance(self, other: Protolyte) -> bool:
+        """Whether two protolytes are one substance (added in two forms, say).
+
+        The one definition of "the same substance" in ph-dossier: the same name,
+        charge and number of steps. (A method's components name their
+        substance by its id, which becomes the protolyte's name.)
+        """
+        return self is other or (self.name == other.name and self.charge == other.charge and self.steps == other.steps)
 
 
 @dataclass(frozen=True, eq=False)
@@ -290,9 +316,9 @@ class Solution:
         object.__setattr__(self, "background", checked_number("Solution.background", self.background, *BACKGROUND_LIMITS, "mol/kg"))
         if self.pkw is not None:
             object.__setattr__(self, "pkw", checked_number("Solution.pkw", self.pkw, *PKW_LIMITS))
-        object.__setattr__(self, "davies_coefficient", checked_number("Solution.davies_coefficient", self.davies_coefficient, 0.0, 1.0))
+        object.__setattr__(self, "davies_coefficient", checked_number("Solution.davies_coefficient", self.davies_coefficient, *limits.DAVIES_COEFFICIENT_RANGE))
         if self.ion_size is not None:
-            object.__setattr__(self, "ion_size", checked_number("Solution.ion_size", self.ion_size, 0.5, 20.0, "Å"))
+            object.__setattr__(self, "ion_size", checked_number("Solution.ion_size", self.ion_size, *limits.ION_SIZE, "Å"))
         object.__setattr__(self, "shape", self._broadcast_shape())
 
     def _arrays(self) -> list[Number]:

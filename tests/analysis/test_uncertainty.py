@@ -62,7 +62,7 @@ def test_rectangular_pka_coverage_interval_is_the_closed_form() -> None:
 
 def test_monte_carlo_agrees_with_gum_for_a_nearly_linear_model() -> None:
     m, spec = buffer(u=0.02, tol="1 %", ttol=1.0)
-    g, errors = gum(("henderson-hasselbalch",), spec, m.conditions, {"henderson-hasselbalch": key_step("henderson-hasselbalch", spec)})
+    g, errors = gum(("henderson-hasselbalch",), spec, m.conditions, {"henderson-hasselbalch": key_step("henderson-hasselbalch", spec, m.conditions)})
     mc = monte_carlo(("henderson-hasselbalch",), spec, m.conditions, 0.05, draws=200_000, seed=3)
     assert mc.exact.u == pytest.approx(g.u, rel=0.01)
     assert mc.exact.mean == pytest.approx(g.value, abs=0.001)

@@ -1,0 +1,118 @@
+"""The domain limits of ph-dossier: one place for every range a layer checks.
+
+Every layer reads its limits from here: the engine (what it can solve), the
+method-file schema and checks (what a method may state), the analyses (how
+far a sweep goes, how finely a crossing is found), the command line, the
+manifest (which records the tolerances in force) and the docs (a test keeps
+docs/method-format.md in step). This module imports nothing.
+
+A range is ``(low, high)``, both ends allowed.
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "PKA_ENGINE",
+    "PKA_STATED",
+    "PKA_CONVERTED",
+    "TEMPERATURE",
+    "TEMPERATURE_TOLERANCE",
+    "TOTAL_ENGINE",
+    "CONCENTRATION",
+    "BACKGROUND_ENGINE",
+    "BACKGROUND",
+    "PKW_OVERRIDE",
+    "ENTHALPY",
+    "HEAT_CAPACITY",
+    "CHARGE",
+    "MAX_STEPS",
+    "ION_SIZE",
+    "DAVIES_COEFFICIENT_RANGE",
+    "PKA_UNCERTAINTY",
+    "MAX_PH_ERROR",
+    "PROBABILITY",
+    "PERCENT_TOLERANCE",
+    "DRAWS",
+    "SWEEP_CONCENTRATION",
+    "SWEEP_PKA",
+    "VALIDITY_CONCENTRATION_REL_TOLERANCE",
+    "VALIDITY_PKA_TOLERANCE",
+    "DRAW_TRUNCATION_SIGMAS",
+    "describe",
+]
+
+# ---------------------------------------------------------------- the engine
+PKA_ENGINE = (-5.0, 20.0)
+"""pKa values the engine solves (25 °C, I = 0) [dimensionless]; also the
+bound on every Monte-Carlo draw and every point of a pKa sweep."""
+TEMPERATURE = (0.0, 100.0)
+"""Temperatures, in the engine and in method files [°C]."""
+TOTAL_ENGINE = (0.0, 20.0)
+"""Concentrations of components, strong acid and strong base in the engine [mol/L]."""
+BACKGROUND_ENGINE = (0.0, 10.0)
+"""Background ionic strength in the engine [mol/kg]."""
+PKW_OVERRIDE = (10.0, 18.0)
+"""An override of pKw [dimensionless]."""
+ENTHALPY = (-300.0, 300.0)
+"""Standard enthalpy of ionization ΔH° [kJ/mol]."""
+HEAT_CAPACITY = (-2000.0, 2000.0)
+"""Standard heat-capacity change of ionization ΔCp° [J/(K·mol)]."""
+CHARGE = (-6, 6)
+"""Charge of the fully protonated form of a protolyte."""
+MAX_STEPS = 6
+"""Largest number of ionization steps of one protolyte."""
+ION_SIZE = (0.5, 20.0)
+"""Ion-size parameter å of the extended Debye–Hückel equation [Å]."""
+DAVIES_COEFFICIENT_RANGE = (0.0, 1.0)
+"""Linear coefficient of the Davies equation [kg/mol]."""
+
+# ---------------------------------------------------------------- method files
+PKA_STATED = (-2.0, 16.0)
+"""A pKa as a method file states it [dimensionless]."""
+PKA_CONVERTED = (-4.0, 18.0)
+"""A stated pKa once converted to 25 °C and I = 0 [dimensionless]."""
+CONCENTRATION = (1e-10, 10.0)
+"""Nominal concentrations and working ranges in a method file [mol/L]."""
+BACKGROUND = (0.0, 5.0)
+"""Background ionic strength and the ionic strength of a stated pKa in a method file [mol/kg]."""
+TEMPERATURE_TOLERANCE = (0.0, 20.0)
+"""Half-width of the working temperature [°C]."""
+PKA_UNCERTAINTY = (0.0, 2.0)
+"""Standard uncertainty of a pKa [pKa units]."""
+MAX_PH_ERROR = (0.0, 2.0)
+"""Acceptance limit on |shortcut pH − exact pH| [pH]; the low end is excluded."""
+PROBABILITY = (0.5, 0.9999)
+"""Required probability of conformity [1]."""
+PERCENT_TOLERANCE = (0.0, 50.0)
+"""A concentration tolerance given as a percentage [%]."""
+DRAWS = (1_000, 100_000_000)
+"""Monte-Carlo draws per solution (command line)."""
+
+# ---------------------------------------------------------------- the analyses
+SWEEP_CONCENTRATION = (1e-10, 10.0)
+"""Sweep of the first component's total in a validity analysis [mol/L]."""
+SWEEP_PKA = (-2.0, 16.0)
+"""Sweep of the key step's pKa in a validity analysis [dimensionless]."""
+VALIDITY_CONCENTRATION_REL_TOLERANCE = 1e-3
+"""Relative tolerance to which a validity interval's end is found in concentration (0.1 %)."""
+VALIDITY_PKA_TOLERANCE = 1e-3
+"""Tolerance to which a validity interval's end is found in pKa."""
+DRAW_TRUNCATION_SIGMAS = 8.0
+"""A normal draw is truncated at this many standard uncertainties (the
+probability beyond is below 1e-15), so that no draw leaves the range the
+method file was checked for."""
+
+
+def describe(limits: tuple[float, float], unit: str = "") -> str:
+    """A range for messages: ``0 … 100 °C``.
+
+    Examples
+    --------
+    >>> describe(TEMPERATURE, "°C")
+    '0 … 100 °C'
+    >>> describe(CONCENTRATION, "mol/L")
+    '1e-10 … 10 mol/L'
+    """
+    lo, hi = limits
+    text = f"{lo:g} … {hi:g}"
+    return f"{text} {unit}" if unit else text
