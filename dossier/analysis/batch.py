@@ -1,90 +1,43 @@
-"""Many variants of one method solution in a single vectorized engine call.
+"""The uncertain inputs of a method solution, and the variation that moves them.
 
-Every analysis varies a few inputs of a :class:`~dossier.inputs.model.SolutionSpec`
-(the whole solution diluted, one pKa shifted, a temperature drawn, ...) over
-many cases at once. :class:`Variation` says what changes; :func:`solution_for`
-builds the engine's :class:`~dossier.chemistry.Solution` with array inputs, so
-that the analyses never loop over points in Python.
+The uncertainty analyses (GUM and Monte Carlo) see a solution as a list of
+typed :class:`Input` values; :func:`variation_from` turns deviations of those
+inputs into the :class:`~dossier.inputs.convert.Variation` that
+:func:`~dossier.inputs.convert.solution_for` applies in one vectorized
+engine call.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
+from enum import StrEnum
 
 import numpy as np
 from numpy.typing import NDArray
 
-from ..chemistry import Component, Protolyte, Solution
-from ..inputs.model import ConditionsSpec, SolutionSpec
+from ..inputs.convert import Variation, solution_for
+from .. import limits
+from ..inputs.model import ConditionsSpec, Distribution, SolutionSpec
 
-__all__ = ["Variation", "solution_for", "Input", "inputs_of", "variation_from", "same_substance", "TOTAL_MAX"]
+__all__ = ["Variation", "solution_for", "InputKind", "Input", "inputs_of", "variation_from", "same_substance", "TOTAL_MAX"]
 
-TOTAL_MAX = 10.0
+TOTAL_MAX = limits.SWEEP_CONCENTRATION[1]
 """Highest concentration any component reaches in a sweep [mol/L]."""
 
 Arr = NDArray[np.float64] | float
 
 
-@dataclass(frozen=True)
-class Variation:
-    """Changes applied to a solution, each a float or an array (all broadcast together).
+class InputKind(StrEnum):
+    """What an uncertain input is."""
 
-    Attributes
-    ----------
-    scale : float or array
-        Factor on every concentration (the whole solution diluted or concentrated).
-    total_factor : dict
-        ``{component index: factor}`` on one component's total.
-    pka_shift : dict
-        ``{(component index, step index): shift}`` added to a 25 °C pKa.
-    pka_shift_all : dict
-        ``{component index: shift}`` added to every pKa of a component.
-    temperature : float or array, optional
-        Working temperature [°C] instead of the method's.
-    background : float or array, optional
-        Background ionic strength [mol/kg] instead of the method's.
-    """
-
-    scale: Arr = 1.0
-    total_factor: dict[int, Arr] = field(default_factory=dict)
-    pka_shift: dict[tuple[int, int], Arr] = field(default_factory=dict)
-    pka_shift_all: dict[int, Arr] = field(default_factory=dict)
-    temperature: Arr | None = None
-    background: Arr | None = None
-
-
-def solution_for(spec: SolutionSpec, conditions: ConditionsSpec, variation: Variation | None = None) -> Solution:
-    """The engine's solution for ``spec`` under ``variation`` (arrays broadcast).
-
-    Parameters
-    ----------
-    spec : SolutionSpec
-    conditions : ConditionsSpec
-    variation : Variation, optional
-
-    Returns
-    -------
-    Solution
-    """
-    v = variation or Variation()
-    comps = []
-    for k, c in enumerate(spec.components):
-        base = c.protolyte()
-        pka = []
-        for j, p in enumerate(base.pka):
-            value = p + v.pka_shift_all.get(k, 0.0) + v.pka_shift.get((k, j), 0.0)
-            pka.append(value)
-        protolyte = Protolyte(base.name, tuple(pka), charge=base.charge, dh=base.dh, dcp=base.dcp)
-        total = c.concentration * v.scale * v.total_factor.get(k, 1.0)
-        comps.append(Component(protolyte, total, c.removed))
-    return Solution(
-        comps,
-        temperature=conditions.temperature if v.temperature is None else v.temperature,
-        activity=conditions.activity,
-        strong_acid=spec.strong_acid * v.scale,
-        strong_base=spec.strong_base * v.scale,
-        background=conditions.background if v.background is None else v.background,
-    )
+    PKA = "pka"
+    """A 25 °C thermodynamic pKa of one substance and step."""
+    CONCENTRATION = "log_c"
+    """The total of one component, varied on log10 c."""
+    TEMPERATURE = "temperature"
+    """The working temperature."""
+    BACKGROUND = "background"
+    """The background ionic strength."""
 
 
 @dataclass(frozen=True)
@@ -93,19 +46,21 @@ class Input:
 
     Attributes
     ----------
-    key : str
-        Stable identifier, e.g. ``pka[0][1]`` (substance of component 0, step
-        2), ``log_c[1]``, ``temperature``, ``background``.
+    kind : InputKind
+    component : int or None
+        For a pKa or a concentration: the component (for a pKa, the first
+        component of its substance).
+    step : int or None
+        For a pKa: the ionization step (0 = first).
     label : str
-        For people, e.g. ``pKa2 of phosphoric-acid``.
+        For people, e.g. ``pKa2 of phosphoric acid``.
     unit : str
         Unit of the input as varied (``pKa``, ``log10(c/(mol/L))``, ``°C``, ``mol/kg``).
     nominal : float
         Nominal value in that unit.
     u : float
         Standard uncertainty in that unit.
-    distribution : str
-        ``normal`` or ``rectangular``.
+    distribution : Distribution
     half_width : float
         Half-width of a rectangular distribution, in the input's own quantity
         (pKa, °C, mol/kg; for a concentration, the relative tolerance a of
@@ -115,14 +70,26 @@ class Input:
         added in two forms has one pKa, not two.
     """
 
-    key: str
+    kind: InputKind
+    component: int | None
+    step: int | None
     label: str
     unit: str
     nominal: float
     u: float
-    distribution: str
+    distribution: Distribution
     half_width: float
     targets: tuple[tuple[int, int], ...] = ()
+
+    @property
+    def key(self) -> str:
+        """The stable identifier results.json and the tables use: ``pka[0][1]``
+        (component 0, step 2), ``log_c[1]``, ``temperature``, ``background``."""
+        if self.kind == InputKind.PKA:
+            return f"pka[{self.component}][{self.step}]"
+        if self.kind == InputKind.CONCENTRATION:
+            return f"log_c[{self.component}]"
+        return str(self.kind)
 
     def draw(self, rng: np.random.Generator, n: int) -> NDArray[np.float64]:
         """``n`` deviations from nominal, in the input's unit, from its distribution.
@@ -132,12 +99,13 @@ class Input:
         """
         if self.u == 0.0:
             return np.zeros(n)
-        if self.key.startswith("log_c"):
+        if self.kind == InputKind.CONCENTRATION:
             return np.log10(1.0 + self.half_width * rng.uniform(-1.0, 1.0, n))
-        if self.distribution == "normal":
-            # truncated at ±8 standard deviations (a change of the distribution below 1e-15),
-            # so that no draw leaves the range the method file was checked for
-            return np.clip(rng.normal(0.0, self.u, n), -8.0 * self.u, 8.0 * self.u)
+        if self.distribution == Distribution.NORMAL:
+            # truncated (a change of the distribution below 1e-15), so that no
+            # draw leaves the range the method file was checked for
+            cut = limits.DRAW_TRUNCATION_SIGMAS * self.u
+            return np.clip(rng.normal(0.0, self.u, n), -cut, cut)
         return rng.uniform(-self.half_width, self.half_width, n)
 
 
@@ -155,13 +123,13 @@ def variation_from(inputs: tuple[Input, ...], deltas: dict[str, Arr], conditions
         d = deltas.get(inp.key)
         if d is None:
             continue
-        kind = inp.key.split("[")[0]
-        if kind == "pka":
+        if inp.kind == InputKind.PKA:
             for t in inp.targets:
                 pka_shift[t] = pka_shift.get(t, 0.0) + d
-        elif kind == "log_c":
-            total_factor[int(inp.key[6:-1])] = np.power(10.0, d)
-        elif kind == "temperature":
+        elif inp.kind == InputKind.CONCENTRATION:
+            assert inp.component is not None
+            total_factor[inp.component] = np.power(10.0, d)
+        elif inp.kind == InputKind.TEMPERATURE:
             temperature = temperature + d
         else:
             background = np.maximum(background + d, 0.0)
@@ -174,8 +142,7 @@ def variation_from(inputs: tuple[Input, ...], deltas: dict[str, Arr], conditions
 
 def same_substance(spec: SolutionSpec, component: int, step: int) -> tuple[tuple[int, int], ...]:
     """Every (component, step) holding the same pKa as ``(component, step)``."""
-    name = spec.components[component].substance
-    return tuple((k, step) for k, c in enumerate(spec.components) if c.substance == name)
+    return tuple((k, step) for k in spec.same_substance(component))
 
 
 def inputs_of(spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[Input, ...]:
@@ -195,17 +162,18 @@ def inputs_of(spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[Input, ..
             continue
         seen.add(c.substance)
         for j, p in enumerate(c.pka):
-            half = root3 * p.uncertainty if p.distribution == "rectangular" else 0.0
-            out.append(Input(f"pka[{k}][{j}]", f"pKa{j + 1} of {c.substance}", "pKa", p.thermodynamic, p.uncertainty,
+            half = root3 * p.uncertainty if p.distribution == Distribution.RECTANGULAR else 0.0
+            out.append(Input(InputKind.PKA, k, j, f"pKa{j + 1} of {c.substance}", "pKa", p.thermodynamic, p.uncertainty,
                              p.distribution, half, same_substance(spec, k, j)))
     for k, c in enumerate(spec.components):
         rel = c.tolerance / c.concentration
         u_log = (rel / root3) / np.log(10.0)  # first order: u(log10 c) = u(c) / (c ln 10)
-        out.append(Input(f"log_c[{k}]", f"concentration of {c.substance} ({c.form})", "log10(c/(mol/L))",
-                         float(np.log10(c.concentration)), float(u_log), "rectangular", rel))
-    out.append(Input("temperature", "temperature", "°C", conditions.temperature, conditions.temperature_tolerance / root3,
-                     "rectangular", conditions.temperature_tolerance))
+        out.append(Input(InputKind.CONCENTRATION, k, None, f"concentration of {c.substance} ({c.form})", "log10(c/(mol/L))",
+                         float(np.log10(c.concentration)), float(u_log), Distribution.RECTANGULAR, rel))
+    out.append(Input(InputKind.TEMPERATURE, None, None, "temperature", "°C", conditions.temperature,
+                     conditions.temperature_tolerance / root3, Distribution.RECTANGULAR, conditions.temperature_tolerance))
     if conditions.background > 0.0 or conditions.background_tolerance > 0.0:
         tol = conditions.background_tolerance
-        out.append(Input("background", "background ionic strength", "mol/kg", conditions.background, tol / root3, "rectangular", tol))
+        out.append(Input(InputKind.BACKGROUND, None, None, "background ionic strength", "mol/kg", conditions.background,
+                         tol / root3, Distribution.RECTANGULAR, tol))
     return tuple(out)

@@ -38,7 +38,7 @@ from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import inputs_of, solution_for, variation_from
 from .sensitivity import GumResult
 
-__all__ = ["Distribution", "Comparison", "McResult", "monte_carlo", "compare", "DEFAULT_DRAWS", "COVERAGE", "K95"]
+__all__ = ["Summary", "Comparison", "McResult", "monte_carlo", "compare", "DEFAULT_DRAWS", "COVERAGE", "K95"]
 
 DEFAULT_DRAWS = 1_000_000
 COVERAGE = 0.95
@@ -48,7 +48,7 @@ HIST_BINS = 80
 
 
 @dataclass(frozen=True)
-class Distribution:
+class Summary:
     """Summary of a Monte-Carlo output distribution.
 
     Attributes
@@ -90,9 +90,9 @@ class McResult:
         Entropy of the ``numpy.random.SeedSequence``.
     spawn_key : tuple of int
         Its spawn key (which solution of which method).
-    exact : Distribution
+    exact : Summary
     errors : dict
-        ``{shortcut id: Distribution}``.
+        ``{shortcut id: Summary}``.
     p_exceed : dict
         ``{shortcut id: P(|error| > limit)}``.
     limit : float
@@ -101,18 +101,18 @@ class McResult:
     draws: int
     seed: int
     spawn_key: tuple[int, ...]
-    exact: Distribution
-    errors: dict[str, Distribution]
+    exact: Summary
+    errors: dict[str, Summary]
     p_exceed: dict[str, float]
     limit: float
 
 
-def _summary(values: NDArray[np.float64]) -> Distribution:
+def _summary(values: NDArray[np.float64]) -> Summary:
     lo, hi = np.quantile(values, [(1 - COVERAGE) / 2, (1 + COVERAGE) / 2])
     span = float(values.max() - values.min())
     edges = np.linspace(float(values.min()) - 1e-12, float(values.max()) + 1e-12 + (1e-9 if span == 0 else 0.0), HIST_BINS + 1)
     counts, edges = np.histogram(values, bins=edges)
-    return Distribution(float(values.mean()), float(values.std(ddof=1)), (float(lo), float(hi)),
+    return Summary(float(values.mean()), float(values.std(ddof=1)), (float(lo), float(hi)),
                         (tuple(int(c) for c in counts), tuple(float(e) for e in edges)))
 
 
@@ -151,7 +151,7 @@ def monte_carlo(
     deltas = {inp.key: inp.draw(rng, draws) for inp in inputs}
     sol = solution_for(spec, conditions, variation_from(inputs, deltas, conditions))
     exact = np.broadcast_to(np.asarray(equilibrium(sol).ph, dtype=np.float64), (draws,))
-    errors: dict[str, Distribution] = {}
+    errors: dict[str, Summary] = {}
     p_exceed: dict[str, float] = {}
     for sid in approx_ids:
         err = np.broadcast_to(np.asarray(CATALOGUE[sid].ph(sol), dtype=np.float64), (draws,)) - exact
@@ -168,7 +168,7 @@ def _two_digits_tolerance(u: float) -> float:
     return 0.5 * 10.0**exponent
 
 
-def compare(gum_result: GumResult, mc: Distribution) -> Comparison:
+def compare(gum_result: GumResult, mc: Summary) -> Comparison:
     """Validate the GUM interval y ± 1.96 u_c against the Monte-Carlo interval (JCGM 101 §8)."""
     y, u = gum_result.value, gum_result.u
     lo, hi = y - K95 * u, y + K95 * u

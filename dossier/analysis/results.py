@@ -16,7 +16,7 @@ from ..chemistry.activity import BATES_GUGGENHEIM_BA, DAVIES_COEFFICIENT
 from ..chemistry.solver import TOLERANCE
 from ..inputs.substances import load_table
 from .method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
-from .montecarlo import Comparison, Distribution
+from .montecarlo import Comparison, Summary
 from .sensitivity import GumResult
 from .validity import Interval, Sweep
 
@@ -57,7 +57,7 @@ def _gum(g: GumResult) -> dict[str, Any]:
     }
 
 
-def _distribution(d: Distribution) -> dict[str, Any]:
+def _distribution(d: Summary) -> dict[str, Any]:
     return {"mean": d.mean, "u": d.u, "coverage_95": list(d.coverage)}
 
 

@@ -34,13 +34,13 @@ import numpy as np
 from numpy.typing import NDArray
 
 from ..chemistry import CATALOGUE, equilibrium
-from ..chemistry.species import TEMPERATURE_LIMITS
+from .. import limits
 from ..inputs.model import ConditionsSpec, SolutionSpec
-from .batch import Input, inputs_of, same_substance, solution_for, variation_from
+from .batch import Input, InputKind, inputs_of, same_substance, solution_for, variation_from
 
 __all__ = ["Contribution", "Coefficients", "GumResult", "gum"]
 
-_STEP = {"pka": 1e-3, "log_c": 1e-3, "temperature": 0.02, "background": 1e-4}
+_STEP = {InputKind.PKA: 1e-3, InputKind.CONCENTRATION: 1e-3, InputKind.TEMPERATURE: 0.02, InputKind.BACKGROUND: 1e-4}
 
 
 @dataclass(frozen=True)
@@ -103,13 +103,12 @@ class GumResult:
 
 def _steps(inp: Input) -> tuple[float, float]:
     """(−h, +h) for a central difference, one-sided where the input's range ends."""
-    kind = inp.key.split("[")[0]
-    h = _STEP[kind]
+    h = _STEP[inp.kind]
     lo, hi = -h, h
-    if kind == "temperature":
-        lo = max(-h, TEMPERATURE_LIMITS[0] - inp.nominal)
-        hi = min(h, TEMPERATURE_LIMITS[1] - inp.nominal)
-    if kind == "background":
+    if inp.kind == InputKind.TEMPERATURE:
+        lo = max(-h, limits.TEMPERATURE[0] - inp.nominal)
+        hi = min(h, limits.TEMPERATURE[1] - inp.nominal)
+    if inp.kind == InputKind.BACKGROUND:
         lo = max(-h, -inp.nominal)
     return lo, hi
 
@@ -150,15 +149,15 @@ def gum(approx_ids: tuple[str, ...], spec: SolutionSpec, conditions: ConditionsS
         lo, hi = _steps(inp)
         add(inp.key, "h-", _Case({inp.key: lo}))
         add(inp.key, "h+", _Case({inp.key: hi}))
-        add(inp.key, "u-", _Case({inp.key: max(-inp.u, -inp.nominal) if inp.key == "background" else -inp.u}))
+        add(inp.key, "u-", _Case({inp.key: max(-inp.u, -inp.nominal) if inp.kind == InputKind.BACKGROUND else -inp.u}))
         add(inp.key, "u+", _Case({inp.key: inp.u}))
     add("@scale", "h-", _Case({}, log_scale=-1e-3))
     add("@scale", "h+", _Case({}, log_scale=1e-3))
     add("@pka", "h-", _Case({}, key_shift=-1e-3))
     add("@pka", "h+", _Case({}, key_shift=1e-3))
-    bg_lo = -min(_STEP["background"], conditions.background)
+    bg_lo = -min(_STEP[InputKind.BACKGROUND], conditions.background)
     add("@background", "h-", _Case({}, background=bg_lo))
-    add("@background", "h+", _Case({}, background=_STEP["background"]))
+    add("@background", "h+", _Case({}, background=_STEP[InputKind.BACKGROUND]))
 
     deltas = {inp.key: np.array([c.deltas.get(inp.key, 0.0) for c in cases]) for inp in inputs}
     scale = np.power(10.0, np.array([c.log_scale for c in cases]))
@@ -198,7 +197,7 @@ def gum(approx_ids: tuple[str, ...], spec: SolutionSpec, conditions: ConditionsS
             ylo, yhi = pair(values, inp.key, "u")
             contribs.append(Contribution(inp.key, inp.label, inp.unit, inp.u, coef, abs(yhi - ylo) / 2.0 if inp.u > 0 else 0.0))
         u_c = float(np.sqrt(sum((c.coefficient * c.u) ** 2 for c in contribs)))
-        temperature = next(c.coefficient for c in contribs if c.key == "temperature")
+        temperature = next(c.coefficient for c in contribs if c.key == InputKind.TEMPERATURE)
         coefs = Coefficients(slope(values, "@pka"), slope(values, "@scale"), temperature, slope(values, "@background"))
         return GumResult(name, float(values[0]), u_c, tuple(sorted(contribs, key=lambda c: -c.contribution)), coefs)
 

@@ -30,7 +30,8 @@ import numpy as np
 from numpy.typing import NDArray
 from scipy.optimize import brentq, minimize_scalar
 
-from ..chemistry import CATALOGUE, Approximation, Solution, equilibrium
+from .. import limits
+from ..chemistry import CATALOGUE, ActivityModelId, Approximation, Solution, equilibrium
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import TOTAL_MAX, Variation, solution_for
 
@@ -49,16 +50,16 @@ __all__ = [
     "PKA_POINTS",
 ]
 
-CONCENTRATION_SPAN = (1e-10, 10.0)
+CONCENTRATION_SPAN = limits.SWEEP_CONCENTRATION
 """Sweep of the first component's total [mol/L]."""
-PKA_SPAN = (-2.0, 16.0)
+PKA_SPAN = limits.SWEEP_PKA
 """Sweep of the key step's pKa."""
 CONCENTRATION_POINTS = 221
 """Grid points of the concentration sweep (20 per decade)."""
 PKA_POINTS = 181
 """Grid points of the pKa sweep (0.1 apart)."""
-_REL_TOL_LOG = np.log10(1.001)  # 0.1 % in concentration, on log10
-_PKA_TOL = 1e-3
+_REL_TOL_LOG = float(np.log10(1.0 + limits.VALIDITY_CONCENTRATION_REL_TOLERANCE))  # on log10 c
+_PKA_TOL = limits.VALIDITY_PKA_TOLERANCE
 
 
 @dataclass(frozen=True)
@@ -149,7 +150,7 @@ def _errors(approx: Approximation, solution: Solution) -> tuple[NDArray[np.float
     err = np.asarray(approx.ph(solution), dtype=np.float64) - np.asarray(exact.ph)
     parts: dict[str, NDArray[np.float64]] = {}
     if approx.formula:
-        ideal = exact if solution.activity == "ideal" else equilibrium(replace(solution, activity="ideal"))
+        ideal = exact if solution.activity == ActivityModelId.IDEAL else equilibrium(replace(solution, activity=ActivityModelId.IDEAL))
         partial = approx.partial_ph(solution)
         if partial:
             for label, ph in partial.items():
@@ -185,9 +186,9 @@ def pka_shifts(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, n
     k, j = key_step(approx_id, spec, conditions)
     pks = [p.thermodynamic for p in spec.components[k].pka]
     key = pks[j]
-    lo = max(PKA_SPAN[0] - key, -5.0 - min(pks))
-    hi = min(PKA_SPAN[1] - key, 20.0 - max(pks))
-    same = [i for i, c in enumerate(spec.components) if c.substance == spec.components[k].substance]
+    lo = max(PKA_SPAN[0] - key, limits.PKA_ENGINE[0] - min(pks))
+    hi = min(PKA_SPAN[1] - key, limits.PKA_ENGINE[1] - max(pks))
+    same = list(spec.same_substance(k))
     return np.linspace(lo, hi, n), key, same
 
 

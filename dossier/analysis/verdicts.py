@@ -17,6 +17,7 @@ required probability):
 from __future__ import annotations
 
 from dataclasses import dataclass
+from enum import StrEnum
 
 from ..chemistry import CATALOGUE
 from ..inputs.units import format_concentration
@@ -24,9 +25,22 @@ from ..inputs.model import Method, SolutionSpec
 from .montecarlo import McResult
 from .validity import ValidityResult
 
-__all__ = ["Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_percent"]
+__all__ = ["VerdictStatus", "Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_percent"]
 
-PASS, FAIL, CONDITIONAL = "pass", "fail", "conditional"
+
+class VerdictStatus(StrEnum):
+    """The outcome of a shortcut against the acceptance criterion (rules: module docstring).
+
+    The values are stable identifiers (results.json); the words a reader sees
+    belong to the render layer.
+    """
+
+    PASS = "pass"
+    CONDITIONAL = "conditional"
+    FAIL = "fail"
+
+
+PASS, FAIL, CONDITIONAL = VerdictStatus.PASS, VerdictStatus.FAIL, VerdictStatus.CONDITIONAL
 
 
 @dataclass(frozen=True)
@@ -35,15 +49,14 @@ class Verdict:
 
     Attributes
     ----------
-    status : str
-        ``pass``, ``fail`` or ``conditional``.
+    status : VerdictStatus
     condition : str
         For ``conditional``: the condition under which the shortcut holds.
     reasons : tuple of str
         Why, in words, each with its numbers.
     """
 
-    status: str
+    status: VerdictStatus
     condition: str
     reasons: tuple[str, ...]
 

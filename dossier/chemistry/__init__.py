@@ -7,7 +7,7 @@ The public names below are the stable API (see docs/api.md).
 
 from .activity import MODELS as ACTIVITY_MODELS
 from .approximations import CATALOGUE, Approximation, Constants, NotApplicable, StatedConstants, applicable, approximation, working_constants
-from .activity import ActivityModel, activity_model, conditional_pka, log_gamma, log_gamma_unit, thermodynamic_pka
+from .activity import ActivityModel, ActivityModelId, activity_model, conditional_pka, log_gamma, log_gamma_unit, thermodynamic_pka
 from .errors import ChemistryError, ConvergenceError, InputRangeError
 from .solver import Equilibrium, equilibrium
 from .species import Component, Protolyte, Solution
@@ -25,6 +25,7 @@ __all__ = [
     "working_constants",
     "ACTIVITY_MODELS",
     "ActivityModel",
+    "ActivityModelId",
     "ChemistryError",
     "Component",
     "ConvergenceError",

@@ -34,6 +34,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass
+from enum import StrEnum
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -65,13 +66,22 @@ BATES_GUGGENHEIM_BA = 1.5
 UnitLogGamma = Callable[[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], float], NDArray[np.float64]]
 
 
+class ActivityModelId(StrEnum):
+    """The activity models of the catalogue, by the id method files and results use."""
+
+    IDEAL = "ideal"
+    DEBYE_HUCKEL = "debye-huckel"
+    EXTENDED_DEBYE_HUCKEL = "extended-debye-huckel"
+    DAVIES = "davies"
+
+
 @dataclass(frozen=True)
 class ActivityModel:
     """One activity-coefficient model of the catalogue.
 
     Attributes
     ----------
-    id : str
+    id : ActivityModelId
         Stable identifier used in method files and results.
     title : str
         Human-readable name.
@@ -85,7 +95,7 @@ class ActivityModel:
         ``f(sqrt_i, i, A, Ba, c)`` → log10 γ of a monovalent ion.
     """
 
-    id: str
+    id: ActivityModelId
     title: str
     equation: str
     applies_to: str
@@ -113,7 +123,7 @@ MODELS: dict[str, ActivityModel] = {
     m.id: m
     for m in (
         ActivityModel(
-            "ideal",
+            ActivityModelId.IDEAL,
             "Ideal solution (activity = concentration)",
             r"\log_{10}\gamma_i = 0",
             "any ionic strength, as an approximation",
@@ -121,7 +131,7 @@ MODELS: dict[str, ActivityModel] = {
             _ideal,
         ),
         ActivityModel(
-            "debye-huckel",
+            ActivityModelId.DEBYE_HUCKEL,
             "Debye–Hückel limiting law",
             r"\log_{10}\gamma_i = -A z_i^2 \sqrt{I}",
             "I below about 0.005 mol/kg",
@@ -129,7 +139,7 @@ MODELS: dict[str, ActivityModel] = {
             _limiting,
         ),
         ActivityModel(
-            "extended-debye-huckel",
+            ActivityModelId.EXTENDED_DEBYE_HUCKEL,
             "Extended Debye–Hückel equation",
             r"\log_{10}\gamma_i = -\frac{A z_i^2 \sqrt{I}}{1 + B\mathring{a}\sqrt{I}}",
             "I below about 0.1 mol/kg",
@@ -138,7 +148,7 @@ MODELS: dict[str, ActivityModel] = {
             _extended,
         ),
         ActivityModel(
-            "davies",
+            ActivityModelId.DAVIES,
             "Davies equation",
             r"\log_{10}\gamma_i = -A z_i^2\left(\frac{\sqrt{I}}{1+\sqrt{I}} - c\,I\right)",
             "I below about 0.5 mol/kg",

@@ -39,6 +39,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from .activity import ActivityModelId
 from .errors import InputRangeError
 from .solver import Equilibrium, equilibrium
 from .species import Component, Number, Protolyte, Solution
@@ -239,7 +240,7 @@ def _first_step_applies(s: Solution) -> str | None:
 
 
 def _ideal_applies(s: Solution) -> str | None:
-    if s.activity == "ideal":
+    if s.activity == ActivityModelId.IDEAL:
         return "the method already treats the solution as ideal"
     return None
 
@@ -368,7 +369,7 @@ def _ph_first_step(s: Solution, k: Constants) -> Number:
 
 
 def _ph_ideal(s: Solution, k: Constants) -> Number:
-    return equilibrium(replace(s, activity="ideal")).ph
+    return equilibrium(replace(s, activity=ActivityModelId.IDEAL)).ph
 
 
 def _at_25_solution(s: Solution) -> Solution:

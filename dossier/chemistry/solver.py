@@ -54,7 +54,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from .activity import BATES_GUGGENHEIM_BA, activity_model
+from .activity import BATES_GUGGENHEIM_BA, ActivityModelId, activity_model
 from .errors import ConvergenceError
 from .species import Number, Solution
 from .water import debye_huckel_a, debye_huckel_b
@@ -279,7 +279,7 @@ def _prepare(solution: Solution, shape: tuple[int, ...]) -> _Block:
     for comp in solution.components:
         log_k = [_flat(-np.asarray(pk), shape) for pk in comp.protolyte.pka_at(t)]
         comps.append(_Comp(_flat(comp.total, shape), log_k, comp.removed, comp.protolyte.charge))
-    if solution.activity == "ideal":
+    if solution.activity == ActivityModelId.IDEAL:
         a_dh, ba = np.asarray(0.0), np.asarray(0.0)
     else:
         a_dh = _flat(debye_huckel_a(t), shape)
@@ -371,7 +371,7 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
     model = activity_model(solution.activity)
     davies = float(solution.davies_coefficient)
 
-    ideal = model.id == "ideal"
+    ideal = model.id == ActivityModelId.IDEAL
     ph_conc = np.empty(size)
     # Ideal: pH on both scales is the same number, and log γ is zero.
     ph = ph_conc if ideal else np.empty(size)

@@ -13,8 +13,9 @@ import difflib
 import re
 from dataclasses import dataclass, field
 
-from ..chemistry import CATALOGUE, InputRangeError
-from ..chemistry.activity import log_gamma_unit
+from .. import limits
+from ..chemistry import CATALOGUE, ActivityModelId, InputRangeError
+from ..chemistry.activity import thermodynamic_pka
 from ..chemistry.temperature import REFERENCE_TEMPERATURE, pka_at_temperature
 from ..problems import Problem, Severity
 from .model import (
@@ -23,6 +24,7 @@ from .model import (
     ComponentSpec,
     ConditionsSpec,
     Criteria,
+    Distribution,
     Method,
     PkaValue,
     ReferenceSpec,
@@ -62,6 +64,11 @@ class _Ctx:
 
     def warn(self, loc: Loc, message: str) -> None:
         self.add(loc, message, Severity.WARNING)
+
+
+def _num(x: float) -> str:
+    """A limit as a message shows it: ``−5``, ``20`` (a minus sign, not a hyphen)."""
+    return f"{x:g}".replace("-", "\u2212")
 
 
 def dotted(loc: Loc) -> str:
@@ -175,15 +182,10 @@ def _pka(
     t_s, i_s = entry.temperature, entry.ionic_strength
     pk_ts = value
     if i_s > 0.0:
-        if conditions.activity == "ideal":
+        if conditions.activity == ActivityModelId.IDEAL:
             ctx.warn(loc + ("ionic_strength",), f"stated at I = {i_s:g} mol/kg but the activity model is ideal: taken as thermodynamic without conversion")
         else:
-            f = float(log_gamma_unit(i_s, t_s, conditions.activity))
-            # log γ_z = z² f; acid state j−1 has charge z0−j+1, base state j has z0−j:
-            #   concentration K' = K γ_{j−1}/(γ_H γ_j)  ⇒  pK = pK' + 2 f (z0 − j)
-            #   mixed K'' = a_H [j]/[j−1] = K γ_{j−1}/γ_j  ⇒  pK = pK'' + f (2 (z0 − j) + 1)
-            z = charge - step
-            pk_ts = value + (2.0 * f * z if entry.convention == "concentration" else f * (2 * z + 1))
+            pk_ts = float(thermodynamic_pka(value, i_s, t_s, charge - step, conditions.activity, entry.convention))
     if t_s != REFERENCE_TEMPERATURE:
         if enthalpy is None:
             if t_s == conditions.temperature:
@@ -199,12 +201,14 @@ def _pka(
     if t_s == REFERENCE_TEMPERATURE and enthalpy is None and conditions.temperature != REFERENCE_TEMPERATURE:
         ctx.warn(loc, f"no enthalpy of ionization: the 25 °C pKa is used unchanged at {conditions.temperature:g} °C")
     at_t = float(pka_at_temperature(pk25, conditions.temperature, enthalpy, heat_capacity))
-    spread = 8.0 * entry.uncertainty if entry.distribution == "normal" else 3.0**0.5 * entry.uncertainty
-    if pk25 - spread < -5.0 or pk25 + spread > 20.0:
-        ctx.add(loc + ("uncertainty",), f"pKa {pk25:.3f} with u = {entry.uncertainty:g} would be drawn outside −5 … 20, the range the engine solves")
+    distribution = Distribution(entry.distribution)
+    spread = limits.DRAW_TRUNCATION_SIGMAS * entry.uncertainty if distribution == Distribution.NORMAL else 3.0**0.5 * entry.uncertainty
+    (eng_lo, eng_hi), (conv_lo, conv_hi), (st_lo, st_hi) = limits.PKA_ENGINE, limits.PKA_CONVERTED, limits.PKA_STATED
+    if pk25 - spread < eng_lo or pk25 + spread > eng_hi:
+        ctx.add(loc + ("uncertainty",), f"pKa {pk25:.3f} with u = {entry.uncertainty:g} would be drawn outside {_num(eng_lo)} … {_num(eng_hi)}, the range the engine solves")
         return None
-    if not -4.0 <= pk25 <= 18.0:
-        ctx.add(loc, f"converted to 25 °C and I = 0 the pKa is {pk25:.3f}; allowed: −2 … 16 (as stated) and −4 … 18 after conversion")
+    if not conv_lo <= pk25 <= conv_hi:
+        ctx.add(loc, f"converted to 25 °C and I = 0 the pKa is {pk25:.3f}; allowed: {_num(st_lo)} … {_num(st_hi)} (as stated) and {_num(conv_lo)} … {_num(conv_hi)} after conversion")
         return None
     return PkaValue(
         stated=value,
@@ -213,7 +217,7 @@ def _pka(
         thermodynamic=pk25,
         at_working_temperature=at_t,
         uncertainty=entry.uncertainty,
-        distribution=entry.distribution,
+        distribution=distribution,
         enthalpy=enthalpy,
         heat_capacity=heat_capacity,
         origin=origin,

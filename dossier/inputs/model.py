@@ -8,10 +8,11 @@ came from (the method file or the substance table, with the source key).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from enum import StrEnum
 
 import numpy as np
 
-from ..chemistry import Component, Protolyte, Solution
+from ..chemistry import Protolyte, Solution
 
 __all__ = [
     "PkaValue",
@@ -19,6 +20,7 @@ __all__ = [
     "SolutionSpec",
     "ConditionsSpec",
     "Criteria",
+    "Distribution",
     "ReferenceSpec",
     "Method",
     "TABLE",
@@ -27,6 +29,15 @@ __all__ = [
 
 TABLE = "substance table"
 METHOD_FILE = "method file"
+
+
+class Distribution(StrEnum):
+    """The probability distribution of an uncertain input (JCGM 100:2008 §4.3)."""
+
+    NORMAL = "normal"
+    """Gaussian, with the stated standard uncertainty u."""
+    RECTANGULAR = "rectangular"
+    """Uniform over ±a, with u = a/√3."""
 
 
 @dataclass(frozen=True)
@@ -47,8 +58,8 @@ class PkaValue:
         Thermodynamic value at the method's temperature (van 't Hoff).
     uncertainty : float
         Standard uncertainty [pKa units].
-    distribution : str
-        ``normal`` or ``rectangular``.
+    distribution : Distribution
+        How the value is drawn in the Monte-Carlo propagation.
     enthalpy, heat_capacity : float or None
         ΔH° [kJ/mol], ΔCp° [J/(K·mol)].
     origin : str
@@ -67,7 +78,7 @@ class PkaValue:
     thermodynamic: float
     at_working_temperature: float
     uncertainty: float
-    distribution: str
+    distribution: Distribution
     enthalpy: float | None
     heat_capacity: float | None
     origin: str
@@ -143,6 +154,13 @@ class SolutionSpec:
     strong_base: float
     shortcuts: tuple[str, ...]
 
+    def same_substance(self, component: int) -> tuple[int, ...]:
+        """Indices of every component that is the same substance as ``component``
+        (one substance added in two forms has one set of pKa values); see
+        :meth:`dossier.chemistry.Protolyte.is_same_substance`."""
+        ref = self.components[component].protolyte()
+        return tuple(k for k, c in enumerate(self.components) if c.protolyte().is_same_substance(ref))
+
     def to_solution(self, conditions: ConditionsSpec, *, scale: float | np.ndarray = 1.0) -> Solution:
         """The engine's solution at nominal inputs, optionally diluted or concentrated.
 
@@ -153,15 +171,9 @@ class SolutionSpec:
             Factor applied to every concentration (the whole solution diluted
             or concentrated together), including strong acid and base.
         """
-        comps = [Component(c.protolyte(), c.concentration * scale, c.removed) for c in self.components]
-        return Solution(
-            comps,
-            temperature=conditions.temperature,
-            activity=conditions.activity,
-            strong_acid=self.strong_acid * scale,
-            strong_base=self.strong_base * scale,
-            background=conditions.background,
-        )
+        from .convert import Variation, solution_for
+
+        return solution_for(self, conditions, Variation(scale=scale))
 
 
 @dataclass(frozen=True)

@@ -14,7 +14,7 @@ import jinja2
 from markdown_it import MarkdownIt
 from markupsafe import Markup
 
-from ..analysis.verdicts import format_percent
+from ..analysis.verdicts import VerdictStatus, format_percent
 from ..inputs.units import format_concentration
 
 __all__ = ["environment", "render", "markdown", "templates_dir", "reference_key", "CAUTIONS", "STATUS_MARK"]
@@ -26,7 +26,7 @@ CAUTIONS = (
 )
 """The cautions every report carries (DESIGN §9)."""
 
-STATUS_MARK = {"pass": "✓", "fail": "✗", "conditional": "◐"}
+STATUS_MARK = {VerdictStatus.PASS: "✓", VerdictStatus.FAIL: "✗", VerdictStatus.CONDITIONAL: "◐"}
 """A shape for each verdict, so that it never depends on colour alone."""
 
 

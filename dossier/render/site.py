@@ -15,6 +15,7 @@ from typing import TYPE_CHECKING, Any
 
 from ..analysis.ledger import ledger_document, ledger_entries
 from ..analysis.method import MethodAnalysis
+from ..analysis.verdicts import VerdictStatus
 from ..analysis.results import csv_tables, results_document
 from ..chemistry import ACTIVITY_MODELS, CATALOGUE
 from ..inputs.model import METHOD_FILE, Method
@@ -238,7 +239,7 @@ def render_site(analyses: tuple[MethodAnalysis, ...], build: BuildInfo, diff: Do
     provenance, and the changes since a previous build when ``diff`` is given."""
     table = load_table()
     out: dict[str, bytes] = {}
-    counts = {k: sum(s.verdict.status == k for a in analyses for sa in a.solutions for s in sa.shortcuts) for k in ("pass", "conditional", "fail")}
+    counts = {k: sum(s.verdict.status == k for a in analyses for sa in a.solutions for s in sa.shortcuts) for k in VerdictStatus}
     out["index.html"] = render("index.html", root="", build=build, analyses=analyses, counts=counts, has_changes=diff is not None).encode()
     if diff is not None:
         out["changes.html"] = render("changes.html", root="", build=build, diff=diff).encode()
