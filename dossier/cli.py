@@ -79,14 +79,12 @@ def _add_solve(sub: argparse._SubParsersAction) -> None:
 
 
 def _form_to_removed(form: str, steps: int) -> int:
-    if form == "acid":
-        return 0
-    if form == "base":
-        return steps
+    from .inputs.forms import FormError, protons_removed
+
     try:
-        return int(form)
-    except ValueError:
-        raise InputFailure(f"--form: expected 'acid', 'base' or a whole number of protons removed (0 … {steps}); got {form!r}") from None
+        return protons_removed(form, steps)
+    except FormError as exc:
+        raise InputFailure(f"--form: {exc}") from None
 
 
 _INLINE_ONLY = ("pka", "conc", "dh", "molar_mass", "strong_acid", "strong_base", "pkw", "shortcut")

@@ -56,7 +56,7 @@ def test_selected_shortcut_that_does_not_apply_is_reported() -> None:
         (("--pka", "7", "--pka", "4", "--conc", "1 mmol/L"), "dossier solve: --pka: values must be ascending (pKa1 ≤ pKa2); got 7 then 4"),
         (("--pka", "4.756", "--conc", "1 mmol/L", "--temperature", "120"), "dossier solve: --temperature: must be in 0 … 100 °C; got 120"),
         (("--pka", "4.756", "--conc", "1 mmol/L", "--activity", "pitzer"), "dossier solve: --activity: unknown activity model 'pitzer'; allowed: ideal, debye-huckel, extended-debye-huckel, davies"),
-        (("--pka", "4.756", "--conc", "1 mmol/L", "--form", "3"), "dossier solve: --form: must be an integer in 0 … 1 (protons removed from the fully protonated form); got 3"),
+        (("--pka", "4.756", "--conc", "1 mmol/L", "--form", "3"), "dossier solve: --form: protons removed must be 0 … 1 for a substance with 1 ionization step(s); got 3"),
         (("--pka", "nan", "--conc", "1 mmol/L"), "dossier solve: --pka[0]: must be a finite number in -5 … 20; got nan"),
         (("--pka", "4.756", "--conc", "250 mg/L"), "dossier solve: --conc: '250 mg/L' is a mass concentration: state the molar mass (g/mol) to convert it"),
         (("--pka", "4.756", "--conc", "1 mmol/L", "--shortcut", "magic"), "dossier solve: --shortcut: unknown id 'magic'; known: weak-acid-square-root, weak-acid-quadratic, weak-acid-water-corrected, weak-base-square-root, weak-base-quadratic, conjugate-base-square-root, henderson-hasselbalch, ampholyte-mean, first-step-only, ideal-activity, constants-at-25c"),

@@ -32,6 +32,7 @@ from .model import (
 )
 from pydantic import ValidationError
 
+from .forms import FormError, protons_removed
 from .schema import ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
 from .substances import Substance, SubstanceTable
 from .units import UnitError, format_concentration, parse_concentration
@@ -125,15 +126,11 @@ def _tolerance(ctx: _Ctx, loc: Loc, text: str | None, nominal: float, molar_mass
 
 
 def _form(ctx: _Ctx, loc: Loc, form: str | int, steps: int) -> int | None:
-    if form == "acid":
-        return 0
-    if form == "base":
-        return steps
-    assert isinstance(form, int)
-    if not 0 <= form <= steps:
-        ctx.add(loc, f"protons removed must be 0 … {steps} for a substance with {steps} ionization step(s); got {form}")
+    try:
+        return protons_removed(form, steps)
+    except FormError as exc:
+        ctx.add(loc, str(exc))
         return None
-    return form
 
 
 def _pka(

@@ -12,6 +12,7 @@ from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, field_validator
 
+from .forms import parse_form
 from .substances import SOURCE_KINDS
 
 __all__ = [
@@ -174,11 +175,7 @@ class ComponentIn(_Model):
     @field_validator("form", mode="before")
     @classmethod
     def _form(cls, v: Any) -> Any:
-        if isinstance(v, bool) or not isinstance(v, (str, int)):
-            raise ValueError(f"must be 'acid', 'base' or a whole number of protons removed; got {v!r}")
-        if isinstance(v, str) and v not in ("acid", "base"):
-            raise ValueError(f"must be 'acid', 'base' or a whole number of protons removed; got {v!r}")
-        return v
+        return parse_form(v)
 
 
 class SolutionIn(_Model):
