@@ -11,24 +11,16 @@ from dossier.analysis.sensitivity import gum
 from dossier.analysis.validity import key_step
 from dossier.chemistry import equilibrium
 
-from .helpers import REF, acid, method, tris_buffer
+from tests.builders import MethodBuilder, component, pka
+
+from .helpers import acid, tris_buffer
 
 
 def buffer(u: float = 0.02, distribution: str = "normal", tol: str = "0 %", ttol: float = 0.0):  # noqa: ANN202
     """An acetate buffer, 0.5/0.5 mol/L, ideal: pH = pKa + log(1) to 1e-5, so linear in pKa."""
-    comp = f"""  - substance: acetic-acid
-    form: acid
-    concentration: 0.5 mol/L
-    tolerance: {tol}
-    working_range: [0.1 mol/L, 1 mol/L]
-    pka: [{{uncertainty: {u}, distribution: {distribution}}}]
-  - substance: acetic-acid
-    form: base
-    concentration: 0.5 mol/L
-    tolerance: {tol}
-    working_range: [0.1 mol/L, 1 mol/L]
-    pka: [{{uncertainty: {u}, distribution: {distribution}}}]"""
-    m = method(comp, shortcuts="henderson-hasselbalch", limit=0.05, temperature_tolerance=ttol)
+    comp = [component("acetic-acid", form=form, concentration="0.5 mol/L", tolerance=tol, working_range=("0.1 mol/L", "1 mol/L"),
+                      pka=[pka(uncertainty=u, distribution=distribution)]) for form in ("acid", "base")]
+    m = MethodBuilder(limit=0.05, temperature_tolerance=ttol).solution(*comp, shortcuts=["henderson-hasselbalch"]).build()
     return m, m.solutions[0]
 
 
@@ -91,7 +83,7 @@ def test_runs_are_reproducible_with_a_seed() -> None:
 
 def test_sensitivity_coefficients_match_the_textbook_limits() -> None:
     # Concentrated weak acid: pH ≈ ½(pKa − log C): ∂pH/∂pKa = ½, ∂pH/∂log C = −½.
-    m = method(acid(4.0, conc="0.5 mol/L", lo="0.1 mol/L", hi="1 mol/L", tol="1 %"), shortcuts="weak-acid-square-root", references=REF)
+    m = MethodBuilder().solution(acid(4.0, conc="0.5 mol/L", lo="0.1 mol/L", hi="1 mol/L", tol="1 %"), shortcuts=["weak-acid-square-root"]).build()
     spec = m.solutions[0]
     g, errors = gum(("weak-acid-square-root",), spec, m.conditions, {"weak-acid-square-root": (0, 0)})
     assert g.coefficients.d_pka == pytest.approx(0.5, abs=0.005)
@@ -105,7 +97,7 @@ def test_temperature_coefficient_of_tris_buffer() -> None:
     # TRIS buffer: pH ≈ pKa(T); d pKa/dT = −ΔH°/(R ln10 T²) with ΔH° = 47.45 kJ/mol
     # (Goldberg et al. 2002) and the ΔCp° term: about −0.028 per K at 25 °C.
     comp = tris_buffer("0.1 mol/L", "0.01 mol/L", "0.2 mol/L", 0.005)
-    m = method(comp, shortcuts="henderson-hasselbalch", temperature_tolerance=1.0)
+    m = MethodBuilder(temperature_tolerance=1.0).solution(*comp, shortcuts=["henderson-hasselbalch"]).build()
     g, _ = gum(("henderson-hasselbalch",), m.solutions[0], m.conditions, {"henderson-hasselbalch": (0, 0)})
     want = -47450 / (8.314462618 * np.log(10) * 298.15**2)
     assert g.coefficients.d_temperature == pytest.approx(want, abs=0.002)

@@ -12,11 +12,14 @@ from dossier.analysis.validity import error_at, validity
 from dossier.chemistry import CATALOGUE, Component, Protolyte, Solution, equilibrium
 from dossier.inputs.substances import load_table
 
-from .helpers import REF, acid, method
+from tests.builders import MethodBuilder, component
+from tests.builders import pka as pka_entry
+
+from .helpers import acid
 
 
-def _spec(pka: float, limit: float = 0.02, **kw):  # noqa: ANN003, ANN202
-    m = method(acid(pka, **kw), shortcuts="weak-acid-square-root", limit=limit, references=REF)
+def _spec(value: float, limit: float = 0.02, **kw):  # noqa: ANN003, ANN202
+    m = MethodBuilder(limit=limit).solution(acid(value, **kw), shortcuts=["weak-acid-square-root"]).build()
     return m, m.solutions[0]
 
 
@@ -110,19 +113,8 @@ def test_validity_ranges_agree_with_the_rules_of_thumb() -> None:
 
 
 def test_pka_sweep_shifts_every_step_of_the_substance() -> None:
-    m = method(
-        """  - substance: phosphoric-acid
-    form: 1
-    concentration: 10 mmol/L
-    working_range: [1 mmol/L, 100 mmol/L]
-    pka: [{uncertainty: 0.01}, {uncertainty: 0.01}, {uncertainty: 0.01}]
-  - substance: phosphoric-acid
-    form: 2
-    concentration: 10 mmol/L
-    working_range: [1 mmol/L, 100 mmol/L]
-    pka: [{uncertainty: 0.01}, {uncertainty: 0.01}, {uncertainty: 0.01}]""",
-        shortcuts="henderson-hasselbalch",
-    )
+    phosphate = [component("phosphoric-acid", form=form, pka=[pka_entry(uncertainty=0.01)] * 3) for form in (1, 2)]
+    m = MethodBuilder().solution(*phosphate, shortcuts=["henderson-hasselbalch"]).build()
     spec = m.solutions[0]
     v = validity("henderson-hasselbalch", spec, m.conditions, 0.02)
     assert v.pka_step == (0, 1)  # the H2PO4-/HPO4 2- step

@@ -16,7 +16,9 @@ from dossier.analysis.results import csv_tables, results_document
 from dossier.inputs.loader import load_method
 from dossier.render.figures import method_figures
 
-from .helpers import method, tris_buffer
+from tests.builders import MethodBuilder
+
+from .helpers import tris_buffer
 
 ROOT = Path(__file__).resolve().parents[2]
 FAST = AnalysisSettings(draws=20_000, map_pka=31, map_conc=41)
@@ -53,7 +55,7 @@ def test_conditional_states_the_part_of_the_working_range() -> None:
 def test_conditional_only_at_nominal_inputs() -> None:
     # TRIS at 26 ± 2 °C with the 25 °C constants: fine at 26 °C, not over the tolerance.
     comp = tris_buffer("50 mmol/L", "40 mmol/L", "60 mmol/L", 0.001)
-    m = method(comp, shortcuts="constants-at-25c", limit=0.04, temperature=26.0, temperature_tolerance=2.0)
+    m = MethodBuilder(limit=0.04, temperature=26.0, temperature_tolerance=2.0).solution(*comp, shortcuts=["constants-at-25c"]).build()
     a = analyse_method(m, FAST)
     (s,) = a.solutions[0].shortcuts
     assert s.verdict.status == "conditional"
