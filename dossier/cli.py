@@ -1,5 +1,8 @@
-"""The ``dossier`` command line. Thin: it parses arguments, calls the stages,
-prints, and turns every expected failure into a message and an exit code.
+"""The ``dossier`` command line. Thin: each command parses its arguments,
+calls one function of the application layer (:mod:`dossier.app`), prints
+what it returns, and turns every expected failure into a message and an
+exit code. It imports nothing else of the package but the terminal printer
+and the problem list.
 
 Exit codes: 0 success; 1 bad input (a method file, a value); 2 usage error
 (unknown option, missing argument); 3 internal error (a bug: please report).
@@ -12,12 +15,7 @@ import os
 import sys
 from collections.abc import Callable, Sequence
 
-from typing import TYPE_CHECKING
-
 from . import __version__
-
-if TYPE_CHECKING:
-    from .inputs.model import Method
 
 __all__ = ["main", "EXIT_OK", "EXIT_INPUT", "EXIT_USAGE", "EXIT_INTERNAL"]
 
@@ -78,15 +76,6 @@ def _add_solve(sub: argparse._SubParsersAction) -> None:
     p.set_defaults(run=_run_solve)
 
 
-def _form_to_removed(form: str, steps: int) -> int:
-    from .inputs.forms import FormError, protons_removed
-
-    try:
-        return protons_removed(form, steps)
-    except FormError as exc:
-        raise InputFailure(f"--form: {exc}") from None
-
-
 _INLINE_ONLY = ("pka", "conc", "dh", "molar_mass", "strong_acid", "strong_base", "pkw", "shortcut")
 
 
@@ -96,75 +85,38 @@ def _run_solve(args: argparse.Namespace) -> int:
         if given:
             raise InputFailure(f"give either a method FILE or {', '.join(given)}, not both", EXIT_USAGE)
         return _solve_file(args)
-    if args.pka is None or args.conc is None:
+    if not args.pka or args.conc is None:
         raise InputFailure("give a method FILE, or --pka and --conc for one solution", EXIT_USAGE)
     return _solve_inline(args)
 
 
-def _load_one(path: str) -> Method:
-    from .inputs.loader import load_paths
-    from .problems import format_problems
-
-    inputs = load_paths([path])
-    if inputs.problems:
-        print(format_problems(list(inputs.problems)), file=sys.stderr)
-    if not inputs.ok or not inputs.methods:
-        raise InputFailure(f"{path}: not solved, the file has errors" if inputs.loads else "")
-    return inputs.methods[0]
-
-
 def _solve_file(args: argparse.Namespace) -> int:
-    from .analysis.pointwise import evaluate_method
+    from .app import solve_file
+    from .problems import format_problems
     from .render.terminal import method_points_as_dict, point_table, print_json
 
-    method = _load_one(args.file)
-    results = evaluate_method(method)
+    solved = solve_file(args.file)
+    if solved.problems:
+        print(format_problems(list(solved.problems)), file=sys.stderr)
     if args.json:
-        print_json(method_points_as_dict(method, results))
+        print_json(method_points_as_dict(solved.method, solved.points))
         return EXIT_OK
     console = _console()
-    for solution_id, result in results:
-        console.print(point_table(f"{method.id} · {solution_id}", result))
+    for solution_id, result in solved.points:
+        console.print(point_table(f"{solved.method.id} · {solution_id}", result))
         console.print()
     return EXIT_OK
 
 
 def _solve_inline(args: argparse.Namespace) -> int:
-    from .analysis.pointwise import evaluate_point
-    from .chemistry import CATALOGUE, Component, Protolyte, Solution
-    from .chemistry.errors import InputRangeError
-    from .inputs.units import UnitError, parse_concentration
+    from .app import InlineSolution, solve_inline
     from .render.terminal import point_as_dict, point_table, print_json
 
-    def conc(option: str, text: str | None, molar_mass: float | None = None) -> float:
-        if text is None:
-            return 0.0
-        try:
-            return parse_concentration(text, molar_mass=molar_mass, temperature=args.temperature).mol_per_l
-        except UnitError as exc:
-            raise InputFailure(f"{option}: {exc}") from None
-
-    if args.shortcut:
-        unknown = [s for s in args.shortcut if s not in CATALOGUE]
-        if unknown:
-            raise InputFailure(f"--shortcut: unknown id {unknown[0]!r}; known: {', '.join(CATALOGUE)}")
-    try:
-        if not 0.0 <= args.temperature <= 100.0:
-            raise InputRangeError("--temperature", f"must be in 0 … 100 °C; got {args.temperature:g}")
-        removed = _form_to_removed(args.form, len(args.pka))
-        protolyte = Protolyte("acid", tuple(args.pka), charge=args.charge, dh=tuple(args.dh) if args.dh else None)
-        solution = Solution(
-            [Component(protolyte, conc("--conc", args.conc, args.molar_mass), removed)],
-            temperature=args.temperature,
-            activity=args.activity,
-            strong_acid=conc("--strong-acid", args.strong_acid),
-            strong_base=conc("--strong-base", args.strong_base),
-            background=args.ionic_strength,
-            pkw=args.pkw,
-        )
-        result = evaluate_point(solution, tuple(args.shortcut) if args.shortcut else None)
-    except InputRangeError as exc:
-        raise InputFailure(_option_message(exc)) from None
+    result = solve_inline(InlineSolution(
+        pka=tuple(args.pka), conc=args.conc, form=args.form, charge=args.charge, dh=tuple(args.dh) if args.dh else None,
+        molar_mass=args.molar_mass, temperature=args.temperature, activity=args.activity, ionic_strength=args.ionic_strength,
+        strong_acid=args.strong_acid, strong_base=args.strong_base, pkw=args.pkw, shortcuts=tuple(args.shortcut) if args.shortcut else None,
+    ))
     if args.json:
         print_json(point_as_dict(result))
     else:
@@ -173,42 +125,21 @@ def _solve_inline(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
-_OPTION_OF = {
-    "Protolyte(acid).pka": "--pka",
-    "Protolyte(acid).charge": "--charge",
-    "Protolyte(acid).dh": "--dh",
-    "Component(acid).total": "--conc",
-    "Component(acid).removed": "--form",
-    "Solution.temperature": "--temperature",
-    "Solution.activity": "--activity",
-    "Solution.strong_acid": "--strong-acid",
-    "Solution.strong_base": "--strong-base",
-    "Solution.background": "--ionic-strength",
-    "Solution.pkw": "--pkw",
-}
-
-
-def _option_message(exc: Exception) -> str:
-    """Name the command-line option rather than the engine's argument."""
-    text = str(exc)
-    for argument, option in sorted(_OPTION_OF.items(), key=lambda kv: -len(kv[0])):
-        if text.startswith(argument):
-            return option + text[len(argument):]
-    return text
-
-
 # ---------------------------------------------------------------- analyse
 def _add_analyse(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser(
         "analyse",
         help="validity ranges, sensitivity and Monte Carlo: write results.json, CSV tables and figures",
-        description="Analyse method files and write, per method, OUTPUT/ID/results.json, CSV tables and figures (SVG and PNG).",
+        description=("Analyse method files and publish, per method, OUTPUT/methods/ID/results.json, CSV tables, figures (SVG and PNG) "
+                     "and the calculation ledger, with OUTPUT/manifest.json: the machine-readable part of a dossier, without pages or PDFs. "
+                     "The previous OUTPUT is replaced only when the analysis succeeds."),
     )
     p.add_argument("paths", nargs="*", default=["methods"], metavar="PATH", help="method files or folders (default: methods)")
     p.add_argument("-o", "--output", default="analysis", metavar="DIR", help="folder to write into (default: analysis)")
     p.add_argument("--draws", type=_positive_int, default=None, metavar="N", help="Monte-Carlo draws per solution (default 1000000)")
     p.add_argument("--seed", type=int, default=None, metavar="N", help="seed of the Monte-Carlo generator (default 20261202)")
-    p.add_argument("--no-figures", action="store_true", help="write results and tables only")
+    p.add_argument("--no-figures", action="store_true", help="write results, tables and ledgers only")
+    p.add_argument("--workers", type=int, default=None, metavar="N", help="processes to use (default: one per core)")
     p.set_defaults(run=_run_analyse)
 
 
@@ -222,46 +153,31 @@ def _positive_int(text: str) -> int:
     return value
 
 
-def _run_analyse(args: argparse.Namespace) -> int:
-    import json
-    import time
-    from pathlib import Path
+def _settings(args: argparse.Namespace):  # noqa: ANN202 - dossier.app.AnalysisSettings
+    from .app import AnalysisSettings
 
-    from .analysis.method import AnalysisSettings, analyse_method
-    from .analysis.results import csv_tables, results_document
-    from .inputs.loader import load_paths
+    defaults = AnalysisSettings()
+    return AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed)
+
+
+def _print_problems(problems: Sequence[object]) -> None:
     from .problems import format_problems
 
-    inputs = load_paths(args.paths)
-    if inputs.problems:
-        print(format_problems(list(inputs.problems)), file=sys.stderr)
-    if not inputs.ok:
-        raise InputFailure("nothing analysed: fix the errors above")
-    if not inputs.methods:
-        raise InputFailure("no method files found")
-    defaults = AnalysisSettings()
-    settings = AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed)
-    out = Path(args.output)
-    for method in inputs.methods:
-        t0 = time.perf_counter()
-        analysis = analyse_method(method, settings)
-        folder = out / method.id
-        try:
-            folder.mkdir(parents=True, exist_ok=True)
-            (folder / "results.json").write_text(json.dumps(results_document(analysis), indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
-            for name, text in csv_tables(analysis).items():
-                (folder / name).write_text(text, encoding="utf-8")
-            if not args.no_figures:
-                from .render.figures import method_figures
+    if problems:
+        print(format_problems(list(problems)), file=sys.stderr)  # type: ignore[arg-type]
 
-                (folder / "figures").mkdir(exist_ok=True)
-                for fig in method_figures(analysis):
-                    (folder / "figures" / f"{fig.stem}.svg").write_bytes(fig.svg)
-                    (folder / "figures" / f"{fig.stem}.png").write_bytes(fig.png)
-        except OSError as exc:
-            raise InputFailure(f"cannot write {folder}: {exc.strerror or exc}") from None
-        verdicts = ", ".join(f"{sa.spec.id}/{s.id}: {s.verdict.status}" for sa in analysis.solutions for s in sa.shortcuts)
-        print(f"{method.id}: {verdicts} ({time.perf_counter() - t0:.1f} s) → {folder}")
+
+def _run_analyse(args: argparse.Namespace) -> int:
+    from .app import analyse
+
+    outcome = analyse(args.paths, args.output, _settings(args), figures=not args.no_figures, workers=args.workers)
+    _print_problems(outcome.problems)
+    if not outcome.ok:
+        raise InputFailure("nothing analysed: fix the errors above" if outcome.problems else "no method files found")
+    for a in outcome.analyses:
+        verdicts = ", ".join(f"{sa.spec.id}/{s.id}: {s.verdict.status}" for sa in a.solutions for s in sa.shortcuts)
+        print(f"{a.method.id}: {verdicts}")
+    print(f"wrote {len(outcome.files)} files into {outcome.output}")
     return EXIT_OK
 
 
@@ -330,26 +246,19 @@ class _Reporter:
 
 
 def _run_build(args: argparse.Namespace) -> int:
-    from .analysis.method import AnalysisSettings
-    from .pipeline import build
-    from .problems import format_problems
-    from .publish.staging import PublishError
+    from pathlib import Path
 
-    defaults = AnalysisSettings()
-    settings = AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed)
-    try:
-        with _Reporter(args.quiet) as rep:
-            outcome = build(args.paths, args.output, settings=settings, pdf=not args.no_pdf, strict=args.strict, reporter=rep,
-                            workers=args.workers, previous=args.previous, cache=not args.no_cache)
-    except PublishError as exc:
-        raise InputFailure(f"{exc}; the previous dossier is unchanged") from None
-    except ValueError as exc:
-        raise InputFailure(f"--previous: {exc}") from None
-    if outcome.problems:
-        print(format_problems(list(outcome.problems)), file=sys.stderr)
+    from .app import BuildOptions, build
+
+    options = BuildOptions(settings=_settings(args), pdf=not args.no_pdf, strict=args.strict, workers=args.workers,
+                           previous=Path(args.previous) if args.previous else None, cache=not args.no_cache)
+    with _Reporter(args.quiet) as rep:
+        outcome = build(args.paths, args.output, options, reporter=rep)
+    _print_problems(outcome.problems)
     if args.timings:
+        width = max(len(stage) for stage in outcome.timings)
         for stage, seconds in outcome.timings.items():
-            print(f"  {stage:<40} {seconds:7.2f} s")
+            print(f"  {stage:<{width}}  {seconds:8.2f} s")
     if not outcome.ok:
         raise InputFailure("nothing built: fix the errors above (the previous dossier is unchanged)")
     index = outcome.output.resolve() / "index.html"
@@ -375,7 +284,7 @@ def _add_verify(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_verify(args: argparse.Namespace) -> int:
-    from .publish.verify import verify
+    from .app import verify
 
     report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True))
     for note in report.notes:
@@ -402,13 +311,10 @@ def _run_diff(args: argparse.Namespace) -> int:
     from dataclasses import asdict
     from pathlib import Path
 
-    from .publish.diff import diff_dossiers
+    from .app import diff_dossiers
     from .render.terminal import print_json
 
-    try:
-        d = diff_dossiers(Path(args.old), Path(args.new))
-    except (OSError, ValueError, KeyError) as exc:
-        raise InputFailure(f"not a built dossier: {exc}") from None
+    d = diff_dossiers(Path(args.old), Path(args.new))
     if args.json:
         print_json(asdict(d))
         return EXIT_OK
@@ -435,24 +341,10 @@ def _add_serve(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_serve(args: argparse.Namespace) -> int:
-    import functools
-    from http.server import SimpleHTTPRequestHandler, ThreadingHTTPServer
-    from pathlib import Path
+    from .app import preview_server
 
-    folder = Path(args.folder)
-    if not (folder / "index.html").is_file():
-        raise InputFailure(f"{folder} holds no built dossier (no index.html); run: dossier build -o {folder}")
-
-    class Quiet(SimpleHTTPRequestHandler):
-        def log_message(self, format: str, *a: object) -> None:  # noqa: A002 - the base class's name
-            pass
-
-    handler = functools.partial(Quiet, directory=str(folder))
-    try:
-        server = ThreadingHTTPServer(("127.0.0.1", args.port), handler)
-    except OSError as exc:
-        raise InputFailure(f"cannot listen on 127.0.0.1:{args.port}: {exc.strerror or exc}") from None
-    print(f"serving {folder} at http://127.0.0.1:{server.server_address[1]}/ (Ctrl-C to stop)", flush=True)
+    server = preview_server(args.folder, args.port)
+    print(f"serving {args.folder} at http://127.0.0.1:{server.server_address[1]}/ (Ctrl-C to stop)", flush=True)
     try:
         server.serve_forever()
     except KeyboardInterrupt:
@@ -472,34 +364,30 @@ def _add_check(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_check(args: argparse.Namespace) -> int:
-    from .inputs.loader import load_paths
-    from .problems import Severity, format_problems
+    from .app import check
+    from .problems import format_problems
 
-    inputs = load_paths(args.paths, strict=args.strict)
-    if inputs.problems:
-        print(format_problems(list(inputs.problems)))
-    errors = sum(p.severity is Severity.ERROR for p in inputs.problems)
-    warnings = len(inputs.problems) - errors
-    files = len(inputs.loads)
-    noun = "file" if files == 1 else "files"
-    if errors:
-        print(f"{files} method {noun} checked: {errors} error(s), {warnings} warning(s)")
+    outcome = check(args.paths, strict=args.strict)
+    if outcome.problems:
+        print(format_problems(list(outcome.problems)))
+    noun = "file" if outcome.files == 1 else "files"
+    if outcome.errors:
+        print(f"{outcome.files} method {noun} checked: {outcome.errors} error(s), {outcome.warnings} warning(s)")
         return EXIT_INPUT
-    if files == 0:
+    if outcome.files == 0:
         print("no method files found")
         return EXIT_INPUT
-    print(f"{files} method {noun} checked: no errors, {warnings} warning(s)")
+    print(f"{outcome.files} method {noun} checked: no errors, {outcome.warnings} warning(s)")
     return EXIT_OK
 
 
 def _method_id(text: str) -> str:
-    import re
+    from .app import UserError, check_method_id
 
-    from .inputs.schema import ID_PATTERN, ID_RULE
-
-    if not re.match(ID_PATTERN, text):
-        raise argparse.ArgumentTypeError(f"a method id is {ID_RULE}; got {text!r}")
-    return text
+    try:
+        return check_method_id(text)
+    except UserError as exc:
+        raise argparse.ArgumentTypeError(str(exc)) from None
 
 
 def _add_new(sub: argparse._SubParsersAction) -> None:
@@ -513,22 +401,12 @@ def _add_new(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_new(args: argparse.Namespace) -> int:
-    from .inputs.starter import starter_text
+    from .app import starter, write_starter
 
-    text = starter_text(args.id, args.title or args.id)
     if args.output == "-":
-        sys.stdout.write(text)
+        sys.stdout.write(starter(args.id, args.title))
         return EXIT_OK
-    from pathlib import Path
-
-    out = Path(args.output or f"{args.id}.yaml")
-    if out.exists() and not args.force:
-        raise InputFailure(f"{out} exists; choose another name with -o or add --force")
-    try:
-        out.parent.mkdir(parents=True, exist_ok=True)
-        out.write_text(text, encoding="utf-8")
-    except OSError as exc:
-        raise InputFailure(f"cannot write {out}: {exc.strerror or exc}") from None
+    out = write_starter(args.id, args.output, title=args.title, force=args.force)
     print(f"wrote {out}; edit it, then run: dossier check {out}")
     return EXIT_OK
 
@@ -542,9 +420,9 @@ def _add_schema(sub: argparse._SubParsersAction) -> None:
 def _run_schema(args: argparse.Namespace) -> int:
     import json
 
-    from .inputs.schema import json_schema
+    from .app import schema_document
 
-    print(json.dumps(json_schema(), indent=2, ensure_ascii=False))
+    print(json.dumps(schema_document(), indent=2, ensure_ascii=False))
     return EXIT_OK
 
 
@@ -556,10 +434,10 @@ def _add_substances(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_substances(args: argparse.Namespace) -> int:
-    from .inputs.substances import load_table
+    from .app import substance_table
     from .render.terminal import print_json, substances_as_dict, substances_tables
 
-    table = load_table()
+    table = substance_table()
     if args.json:
         print_json(substances_as_dict(table))
         return EXIT_OK
@@ -610,12 +488,19 @@ def main(argv: Sequence[str] | None = None) -> int:
         args = parser.parse_args(argv)
     except SystemExit as exc:  # argparse: --help/--version exit 0, usage errors exit 2
         return int(exc.code or 0)
+    from .problems import UserError
+
     try:
         return int(args.run(args))
     except InputFailure as exc:
         if str(exc):
             print(f"dossier {args.command}: {exc}", file=sys.stderr)
         return exc.code
+    except UserError as exc:
+        _print_problems(exc.problems)
+        if str(exc):
+            print(f"dossier {args.command}: {exc}", file=sys.stderr)
+        return exc.exit_code
     except KeyboardInterrupt:
         extra = "; the previous dossier is unchanged" if args.command == "build" else ""
         print(f"dossier {args.command}: interrupted{extra}", file=sys.stderr)

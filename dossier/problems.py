@@ -13,7 +13,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from enum import Enum
 
-__all__ = ["Severity", "Problem", "format_problems", "has_errors"]
+__all__ = ["Severity", "Problem", "UserError", "format_problems", "has_errors"]
 
 
 class Severity(str, Enum):
@@ -67,3 +67,16 @@ def has_errors(problems: list[Problem] | tuple[Problem, ...]) -> bool:
 def format_problems(problems: list[Problem] | tuple[Problem, ...]) -> str:
     """One line per problem, sorted by file and position."""
     return "\n".join(str(p) for p in sorted(problems, key=lambda p: (p.file, p.line, p.column, p.field, p.message)))
+
+
+class UserError(Exception):
+    """A request that cannot be done, explained by the message in the user's
+    terms (bad input, a refused action); the command line prints it and exits
+    with :attr:`exit_code`. Carries the located :attr:`problems` of the input
+    files when there are any."""
+
+    exit_code = 1
+
+    def __init__(self, message: str = "", problems: tuple[Problem, ...] = ()) -> None:
+        super().__init__(message)
+        self.problems = problems

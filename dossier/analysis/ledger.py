@@ -13,10 +13,11 @@ from dataclasses import dataclass
 from typing import Any
 
 from .. import __version__
-from ..inputs.serialize import method_to_dict
+from ..inputs.model import Method
+from ..inputs.serialize import method_from_dict, method_to_dict
 from .method import AnalysisSettings, MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
 
-__all__ = ["Entry", "ledger_entries", "ledger_document", "settings_to_dict", "settings_from_dict", "LEDGER_FORMAT", "EQUATIONS"]
+__all__ = ["Entry", "Ledger", "LedgerError", "ledger_of", "ledger_entries", "ledger_document", "settings_to_dict", "settings_from_dict", "LEDGER_FORMAT", "EQUATIONS"]
 
 LEDGER_FORMAT = "ph-dossier-ledger/1"
 
@@ -124,18 +125,80 @@ def settings_from_dict(d: dict[str, Any]) -> AnalysisSettings:
     return AnalysisSettings(draws=int(d["draws"]), seed=int(d["seed"]), map_pka=int(d["map_pka"]), map_conc=int(d["map_conc"]))
 
 
+class LedgerError(ValueError):
+    """A ledger document that cannot be read (the message says what is wrong)."""
+
+
+@dataclass(frozen=True)
+class Ledger:
+    """The calculation ledger of one method: its inputs as used, the settings,
+    the verdicts and every published number.
+
+    Attributes
+    ----------
+    method : Method
+        The validated method, as the analysis used it.
+    settings : AnalysisSettings
+    verdicts : tuple of (str, str)
+        ``("solution/shortcut", status)`` for every claimed shortcut.
+    entries : tuple of Entry
+    tool_version : str
+    """
+
+    method: Method
+    settings: AnalysisSettings
+    verdicts: tuple[tuple[str, str], ...]
+    entries: tuple[Entry, ...]
+    tool_version: str = __version__
+
+    def values(self) -> dict[str, float]:
+        """{entry id: value}."""
+        return {e.id: e.value for e in self.entries}
+
+    def to_document(self) -> dict[str, Any]:
+        """The ``ledger.json`` document (format ``ph-dossier-ledger/1``)."""
+        return {
+            "format": LEDGER_FORMAT,
+            "tool_version": self.tool_version,
+            "method": method_to_dict(self.method),
+            "settings": settings_to_dict(self.settings),
+            "equations": EQUATIONS,
+            "verdicts": dict(self.verdicts),
+            "entries": [
+                {"id": e.id, "value": e.value, "unit": e.unit, "quantity": e.quantity, "equation": e.equation, "solution": e.solution}
+                for e in self.entries
+            ],
+        }
+
+    @classmethod
+    def from_document(cls, d: Any) -> Ledger:
+        """Read a ``ledger.json`` document back.
+
+        Raises
+        ------
+        LedgerError
+            When ``d`` is not a ledger of this format.
+        """
+        if not isinstance(d, dict) or d.get("format") != LEDGER_FORMAT:
+            raise LedgerError(f"not a ledger of format {LEDGER_FORMAT!r}")
+        try:
+            return cls(
+                method=method_from_dict(d["method"]),
+                settings=settings_from_dict(d["settings"]),
+                verdicts=tuple((str(k), str(v)) for k, v in d["verdicts"].items()),
+                entries=tuple(Entry(e["id"], float(e["value"]), e["unit"], e["quantity"], e["equation"], e["solution"]) for e in d["entries"]),
+                tool_version=str(d["tool_version"]),
+            )
+        except (KeyError, TypeError, ValueError, AttributeError) as exc:
+            raise LedgerError(f"the ledger is incomplete or malformed: {type(exc).__name__}: {exc}") from None
+
+
+def ledger_of(analysis: MethodAnalysis) -> Ledger:
+    """The ledger of one method's analysis."""
+    verdicts = tuple((f"{sa.spec.id}/{s.id}", str(s.verdict.status)) for sa in analysis.solutions for s in sa.shortcuts)  # type: ignore[union-attr]
+    return Ledger(analysis.method, analysis.settings, verdicts, ledger_entries(analysis))
+
+
 def ledger_document(analysis: MethodAnalysis) -> dict[str, Any]:
     """The ``ledger.json`` document of one method."""
-    verdicts = {f"{sa.spec.id}/{s.id}": s.verdict.status for sa in analysis.solutions for s in sa.shortcuts}  # type: ignore[union-attr]
-    return {
-        "format": LEDGER_FORMAT,
-        "tool_version": __version__,
-        "method": method_to_dict(analysis.method),
-        "settings": settings_to_dict(analysis.settings),
-        "equations": EQUATIONS,
-        "verdicts": verdicts,
-        "entries": [
-            {"id": e.id, "value": e.value, "unit": e.unit, "quantity": e.quantity, "equation": e.equation, "solution": e.solution}
-            for e in ledger_entries(analysis)
-        ],
-    }
+    return ledger_of(analysis).to_document()

@@ -21,10 +21,13 @@ class InputRangeError(ChemistryError, ValueError):
     ----------
     argument : str
         Name of the offending argument, e.g. ``"Component(acetic).total"``.
+    message : str
+        What is wrong with it.
     """
 
     def __init__(self, argument: str, message: str) -> None:
         self.argument = argument
+        self.message = message
         super().__init__(f"{argument}: {message}")
 
 

@@ -96,6 +96,8 @@ class SubstanceTable:
     substances: dict[str, Substance]
     sources: dict[str, TableSource]
     sha256: str
+    size: int = 0
+    """Bytes of the file."""
 
     def get(self, substance_id: str) -> Substance | None:
         return self.substances.get(substance_id)
@@ -137,4 +139,4 @@ def load_table() -> SubstanceTable:
         )
         forms = tuple(TableForm(f["removed"], f["compound"], f["formula"], molar_mass(f["formula"])) for f in s["forms"])
         substances[s["id"]] = Substance(s["id"], s["name"], int(s["charge"]), steps, forms, s.get("note", ""))
-    return SubstanceTable(substances, sources, hashlib.sha256(raw).hexdigest())
+    return SubstanceTable(substances, sources, hashlib.sha256(raw).hexdigest(), len(raw))

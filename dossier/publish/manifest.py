@@ -10,9 +10,11 @@ build ran in (or by their file name when outside it).
 from __future__ import annotations
 
 import hashlib
+import json
 import os
 import re
 import subprocess
+from dataclasses import dataclass
 from functools import lru_cache
 from importlib import metadata
 from pathlib import Path
@@ -20,7 +22,7 @@ from typing import Any
 
 from .. import __version__
 
-__all__ = ["MANIFEST_FORMAT", "MANIFEST_NAME", "manifest_document", "dependency_versions", "git_commit", "portable_path", "sha256_file"]
+__all__ = ["MANIFEST_FORMAT", "MANIFEST_NAME", "Manifest", "ManifestError", "InputRecord", "MethodRecord", "OutputRecord", "new_manifest", "dependency_versions", "git_commit", "portable_path", "sha256_file"]
 
 MANIFEST_FORMAT = "ph-dossier-manifest/1"
 MANIFEST_NAME = "manifest.json"
@@ -86,41 +88,172 @@ def git_commit() -> tuple[str | None, bool | None]:
     return commit or None, bool(status.strip())
 
 
-def manifest_document(
+class ManifestError(ValueError):
+    """A manifest that cannot be read (the message says what is wrong)."""
+
+
+@dataclass(frozen=True)
+class InputRecord:
+    """An input file of the build: its path, SHA-256, size and role."""
+
+    path: str
+    sha256: str
+    bytes: int | None
+    role: str
+
+
+@dataclass(frozen=True)
+class MethodRecord:
+    """A method of the dossier: id, revision, source file and its SHA-256, cache key."""
+
+    id: str
+    revision: str
+    source: str
+    source_sha256: str
+    cache_key: str
+
+
+@dataclass(frozen=True)
+class OutputRecord:
+    """A file the build wrote: path, SHA-256, size."""
+
+    path: str
+    sha256: str
+    bytes: int
+
+
+@dataclass(frozen=True)
+class Manifest:
+    """The manifest of one build (``manifest.json``, format ``ph-dossier-manifest/1``).
+
+    Attributes
+    ----------
+    tool_version : str
+    git_commit : str or None
+    git_dirty : bool or None
+    python : str
+    dependencies : tuple of (name, version)
+    build_time : str
+    source_date_epoch : int or None
+    settings : dict
+        Solver and analysis settings (JSON data).
+    inputs, methods, outputs : tuples of records
+        Outputs are every file written except the manifest, sorted by path.
+    """
+
+    tool_version: str
+    git_commit: str | None
+    git_dirty: bool | None
+    python: str
+    dependencies: tuple[tuple[str, str], ...]
+    build_time: str
+    source_date_epoch: int | None
+    settings: dict[str, Any]
+    inputs: tuple[InputRecord, ...]
+    methods: tuple[MethodRecord, ...]
+    outputs: tuple[OutputRecord, ...]
+
+    def to_document(self) -> dict[str, Any]:
+        """The JSON document (keys in the order of docs/manifest-format.md)."""
+        return {
+            "format": MANIFEST_FORMAT,
+            "tool": {"name": "ph-dossier", "version": self.tool_version, "git_commit": self.git_commit, "git_dirty": self.git_dirty},
+            "python": self.python,
+            "dependencies": [{"name": n, "version": v} for n, v in self.dependencies],
+            "build_time": self.build_time,
+            "source_date_epoch": self.source_date_epoch,
+            "settings": self.settings,
+            "inputs": [{"path": i.path, "sha256": i.sha256, "bytes": i.bytes, "role": i.role} for i in self.inputs],
+            "methods": [
+                {"id": m.id, "revision": m.revision, "source": m.source, "source_sha256": m.source_sha256, "cache_key": m.cache_key}
+                for m in self.methods
+            ],
+            "outputs": [{"path": o.path, "sha256": o.sha256, "bytes": o.bytes} for o in self.outputs],
+        }
+
+    def to_bytes(self) -> bytes:
+        """The file's bytes (indented JSON, UTF-8, newline at the end)."""
+        return (json.dumps(self.to_document(), indent=2, ensure_ascii=False) + "\n").encode("utf-8")
+
+    @classmethod
+    def from_document(cls, d: Any) -> Manifest:
+        """Read a manifest document back.
+
+        Raises
+        ------
+        ManifestError
+            When ``d`` is not a manifest of this format.
+        """
+        if not isinstance(d, dict) or d.get("format") != MANIFEST_FORMAT:
+            got = d.get("format") if isinstance(d, dict) else type(d).__name__
+            raise ManifestError(f"expected format {MANIFEST_FORMAT!r}; got {got!r}")
+        try:
+            return cls(
+                tool_version=str(d["tool"]["version"]),
+                git_commit=d["tool"].get("git_commit"),
+                git_dirty=d["tool"].get("git_dirty"),
+                python=str(d["python"]),
+                dependencies=tuple((str(x["name"]), str(x["version"])) for x in d["dependencies"]),
+                build_time=str(d["build_time"]),
+                source_date_epoch=d.get("source_date_epoch"),
+                settings=dict(d["settings"]),
+                inputs=tuple(InputRecord(i["path"], i["sha256"], i.get("bytes"), i["role"]) for i in d["inputs"]),
+                methods=tuple(MethodRecord(m["id"], str(m["revision"]), m["source"], m["source_sha256"], m["cache_key"]) for m in d["methods"]),
+                outputs=tuple(OutputRecord(o["path"], o["sha256"], int(o["bytes"])) for o in d["outputs"]),
+            )
+        except (KeyError, TypeError, ValueError, AttributeError) as exc:
+            raise ManifestError(f"the manifest is incomplete or malformed: {type(exc).__name__}: {exc}") from None
+
+    @classmethod
+    def read(cls, folder: Path) -> Manifest:
+        """The manifest of a built dossier.
+
+        Raises
+        ------
+        ManifestError
+            When the folder holds no readable manifest.
+        """
+        path = folder / MANIFEST_NAME
+        try:
+            data = json.loads(path.read_text(encoding="utf-8"))
+        except FileNotFoundError:
+            raise ManifestError(f"{folder} is not a built dossier (no {MANIFEST_NAME})") from None
+        except NotADirectoryError:
+            raise ManifestError(f"{folder} is not a folder") from None
+        except (OSError, ValueError) as exc:
+            raise ManifestError(f"cannot read {path}: {exc}") from None
+        return cls.from_document(data)
+
+
+def new_manifest(
     *,
     build_time: str,
     python: str,
     settings: dict[str, Any],
-    inputs: list[dict[str, Any]],
-    methods: list[dict[str, Any]],
+    inputs: tuple[InputRecord, ...],
+    methods: tuple[MethodRecord, ...],
     outputs: dict[str, tuple[str, int]],
-) -> dict[str, Any]:
-    """The manifest of one build.
+) -> Manifest:
+    """The manifest of a build being published: this tool's version and commit,
+    the dependencies installed, ``SOURCE_DATE_EPOCH`` when set.
 
     Parameters
     ----------
-    build_time : str
-    python : str
-    settings : dict
-        Solver and analysis settings.
-    inputs : list of dict
-        ``{"path", "sha256", "bytes", "role"}`` per input file.
-    methods : list of dict
-        ``{"id", "revision", "source", "source_sha256", "cache_key"}`` per method.
     outputs : dict
         ``{relative path: (sha256, size)}`` of every file written (not the manifest).
     """
     commit, dirty = git_commit()
     epoch = os.environ.get("SOURCE_DATE_EPOCH")
-    return {
-        "format": MANIFEST_FORMAT,
-        "tool": {"name": "ph-dossier", "version": __version__, "git_commit": commit, "git_dirty": dirty},
-        "python": python,
-        "dependencies": [{"name": n, "version": v} for n, v in dependency_versions()],
-        "build_time": build_time,
-        "source_date_epoch": int(epoch) if epoch and epoch.isdigit() else None,
-        "settings": settings,
-        "inputs": inputs,
-        "methods": methods,
-        "outputs": [{"path": p, "sha256": h, "bytes": n} for p, (h, n) in sorted(outputs.items())],
-    }
+    return Manifest(
+        tool_version=__version__,
+        git_commit=commit,
+        git_dirty=dirty,
+        python=python,
+        dependencies=dependency_versions(),
+        build_time=build_time,
+        source_date_epoch=int(epoch) if epoch and epoch.isdigit() else None,
+        settings=settings,
+        inputs=inputs,
+        methods=methods,
+        outputs=tuple(OutputRecord(p, h, n) for p, (h, n) in sorted(outputs.items())),
+    )

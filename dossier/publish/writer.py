@@ -13,7 +13,7 @@ import re
 from dataclasses import dataclass, field
 from pathlib import Path, PurePosixPath
 
-__all__ = ["Writer", "UnsafePath", "WrittenTwice"]
+__all__ = ["Writer", "UnsafePath", "WrittenTwice", "write_one_file"]
 
 _RESERVED = re.compile(r"^(con|prn|aux|nul|com[0-9]|lpt[0-9])(\..*)?$", re.IGNORECASE)
 
@@ -72,3 +72,33 @@ class Writer:
         self.written[rel] = hashlib.sha256(raw).hexdigest()
         self.sizes[rel] = len(raw)
         return target
+
+
+def write_one_file(path: Path, data: bytes, *, overwrite: bool = False) -> Path:
+    """Write a single file outside a build (a starter method file, say), atomically.
+
+    The bytes go to a temporary file beside ``path`` that then replaces it in
+    one step, so a reader never sees half a file.
+
+    Raises
+    ------
+    FileExistsError
+        When ``path`` exists and ``overwrite`` is False.
+    OSError
+        When the folder cannot be made or the file written.
+    """
+    path = Path(path)
+    if path.exists() and not overwrite:
+        raise FileExistsError(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    tmp = path.with_name(f".{path.name}.{os.getpid()}.tmp")
+    try:
+        with open(tmp, "xb") as fh:
+            fh.write(data)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, path)
+    finally:
+        if tmp.exists():
+            tmp.unlink()
+    return path

@@ -13,29 +13,24 @@ from functools import lru_cache
 from importlib import resources
 from typing import TYPE_CHECKING, Any
 
-from ..analysis.ledger import ledger_document, ledger_entries
+from ..analysis.ledger import Ledger
 from ..analysis.method import MethodAnalysis
 from ..analysis.verdicts import VerdictStatus
-from ..analysis.results import csv_tables, results_document
+from .results import csv_tables, results_document
 from ..chemistry import ACTIVITY_MODELS, CATALOGUE
 from ..inputs.model import METHOD_FILE, Method
-from ..inputs.substances import SubstanceTable, load_table
+from ..inputs.substances import SubstanceTable
+from ..layout import LAYOUT
 from .equations import EXACT_MODEL, all_equations, equation_svg
 from .figures import FigureFile, method_figures
 from .buildinfo import BuildInfo
+from .context import BuildContext
 from .html import render
 
 if TYPE_CHECKING:
-    from ..publish.diff import DossierDiff
+    from ..analysis.changes import DossierDiff
 
-__all__ = ["BuildInfo", "RefView", "shared_assets", "render_method", "method_pdf", "method_pdf_path", "dossier_pdf", "render_site", "OUTPUT_README", "references_for"]
-
-OUTPUT_README = """# output/
-
-`make demo` and `dossier build` write the dossier here. Everything in this
-folder except this file is generated and ignored by git.
-"""
-"""The README.md every build writes at the top of the output (the same as the committed one)."""
+__all__ = ["BuildInfo", "BuildContext", "RefView", "shared_assets", "render_method", "render_dossier", "references_for"]
 
 
 @dataclass(frozen=True)
@@ -80,19 +75,19 @@ class LedgerView:
     entries: tuple[LedgerRow, ...]
 
 
-def _ledger_view(a: MethodAnalysis) -> LedgerView:
+def _ledger_view(ledger: Ledger) -> LedgerView:
     rows = []
-    for e in ledger_entries(a):
+    for e in ledger.entries:
         anchor = f"shortcut-{e.equation}" if e.equation in CATALOGUE else ("exact" if e.equation in ("exact-equilibrium", "van-t-hoff", "unit-conversion") else "analyses")
-        rows.append(LedgerRow(e.id, e.value, e.unit, e.quantity, e.equation, f"../../calculations.html#{anchor}"))
+        rows.append(LedgerRow(e.id, e.value, e.unit, e.quantity, e.equation, f"{LAYOUT.root_of(LAYOUT.ledger_page(ledger.method.id))}{LAYOUT.calculations}#{anchor}"))
     return LedgerView(tuple(rows))
 
 
-def _page_context(a: MethodAnalysis, figures: tuple[FigureFile, ...], table: SubstanceTable, prefix: str = "") -> dict[str, Any]:
+def _page_context(a: MethodAnalysis, figures: tuple[FigureFile, ...], ledger: Ledger, table: SubstanceTable, prefix: str = "") -> dict[str, Any]:
     by_pair: dict[tuple[str, str], list[FigureFile]] = {}
     for f in figures:
         by_pair.setdefault((f.solution, f.shortcut), []).append(f)
-    return {"a": a, "refs": references_for(a.method, table, prefix), "figures": by_pair, "ledger": _ledger_view(a)}
+    return {"a": a, "refs": references_for(a.method, table, prefix), "figures": by_pair, "ledger": _ledger_view(ledger)}
 
 
 def _common() -> dict[str, Any]:
@@ -154,62 +149,69 @@ def _pdf(html: str, base: str, files: dict[str, bytes]) -> bytes:
 
 
 def shared_assets() -> dict[str, bytes]:
-    """Files every page needs: README, stylesheets, equation images (a new dict
+    """Files every page needs: stylesheets, icon, equation images (a new dict
     each call; drawn once per process)."""
     return dict(_shared_assets())
 
 
 @lru_cache(maxsize=1)
 def _shared_assets() -> dict[str, bytes]:
-    files: dict[str, bytes] = {"README.md": OUTPUT_README.encode()}
-    files["assets/site.css"] = _asset("site.css")
-    files["assets/pdf.css"] = _asset("pdf.css")
-    files["assets/favicon.svg"] = _asset("favicon.svg")
+    files: dict[str, bytes] = {LAYOUT.site_css: _asset("site.css"), LAYOUT.pdf_css: _asset("pdf.css"), LAYOUT.favicon: _asset("favicon.svg")}
     for e in all_equations():
-        files[f"assets/equations/{e.id}.svg"] = equation_svg(e.latex)
+        files[LAYOUT.equation(e.id)] = equation_svg(e.latex)
     return files
 
 
-def render_method(a: MethodAnalysis, build: BuildInfo) -> tuple[dict[str, bytes], tuple[FigureFile, ...]]:
-    """One method's files: page, results, tables, figures (its PDF: :func:`method_pdf`)."""
-    table = load_table()
+def _json(document: object) -> bytes:
+    return (json.dumps(document, indent=2, ensure_ascii=False) + "\n").encode()
+
+
+def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[str, bytes]:
+    """Every file of one method under its dossier path.
+
+    Always its results, CSV tables, figures and ledger; with ``ctx.site`` its
+    page and ledger page; with ``ctx.pdf`` its PDF too.
+    """
     mid = a.method.id
-    here = f"methods/{mid}/"
-    files: dict[str, bytes] = {here + "results.json": (json.dumps(results_document(a), indent=2, ensure_ascii=False) + "\n").encode()}
+    files: dict[str, bytes] = {LAYOUT.results(mid): _json(results_document(a, ctx.table.sha256))}
     for name, text in csv_tables(a).items():
-        files[here + name] = text.encode()
-    figures = method_figures(a)
+        files[LAYOUT.table(mid, name)] = text.encode()
+    figures = method_figures(a) if ctx.figures else ()
     for f in figures:
-        files[f"{here}figures/{f.stem}.svg"] = f.svg
-        files[f"{here}figures/{f.stem}.png"] = f.png
-    ctx = _page_context(a, figures, table)
-    files[here + "index.html"] = render("method.html", root="../../", build=build, **ctx, **_common()).encode()
-    files[here + "ledger.json"] = (json.dumps(ledger_document(a), indent=2, ensure_ascii=False) + "\n").encode()
-    files[here + "ledger.html"] = render("ledger.html", root="../../", build=build, a=a, ledger=ctx["ledger"]).encode()
-    return files, figures
+        files[LAYOUT.figure(mid, f.stem, "svg")] = f.svg
+        files[LAYOUT.figure(mid, f.stem, "png")] = f.png
+    files[LAYOUT.ledger(mid)] = _json(ledger.to_document())
+    if not ctx.site:
+        return files
+    page = LAYOUT.method_page(mid)
+    view = _page_context(a, figures, ledger, ctx.table)
+    files[page] = render("method.html", root=LAYOUT.root_of(page), build=ctx.info, **view, **_common()).encode()
+    files[LAYOUT.ledger_page(mid)] = render("ledger.html", root=LAYOUT.root_of(page), build=ctx.info, a=a, ledger=view["ledger"]).encode()
+    if ctx.pdf:
+        html = render("pdf_method.html", root=LAYOUT.root_of(page), build=ctx.info, **_page_context(a, figures, ledger, ctx.table, prefix=f"{mid}-"), **_common())
+        files[LAYOUT.method_pdf(mid)] = _pdf(html, LAYOUT.method_folder(mid), {**shared_assets(), **files})
+    return files
 
 
-def method_pdf_path(method_id: str) -> str:
-    """Where a method's PDF is in the dossier."""
-    return f"methods/{method_id}/{method_id}.pdf"
+def render_dossier(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], ctx: BuildContext, diff: DossierDiff | None = None) -> dict[str, bytes]:
+    """The files about the whole dossier: shared assets, index, references,
+    calculation methods, provenance, the changes since a previous build when
+    ``diff`` is given, and (with ``ctx.pdf``) the dossier PDF bound from the
+    method PDFs in ``reports`` (method id → bytes)."""
+    files = {**shared_assets(), **_dossier_pages(analyses, ctx, diff)}
+    if ctx.pdf:
+        files[LAYOUT.dossier_pdf] = _dossier_pdf(analyses, reports, ctx, files)
+    return files
 
 
-def method_pdf(a: MethodAnalysis, figures: tuple[FigureFile, ...], build: BuildInfo, files: dict[str, bytes]) -> dict[str, bytes]:
-    """The PDF of one method ({path: bytes}); ``files`` must hold its figures and the assets."""
-    mid = a.method.id
-    html = render("pdf_method.html", root="../../", build=build, **_page_context(a, figures, load_table(), prefix=f"{mid}-"), **_common())
-    return {method_pdf_path(mid): _pdf(html, f"methods/{mid}/", files)}
-
-
-def dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], build: BuildInfo, files: dict[str, bytes]) -> dict[str, bytes]:
-    """The PDF of the whole dossier ({path: bytes}), bound from the method PDFs.
+def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], ctx: BuildContext, files: dict[str, bytes]) -> bytes:
+    """The PDF of the whole dossier, bound from the method PDFs.
 
     The dossier's front matter (cover, contents, verdicts at a glance) and
     back matter (signatures) are laid out here, once; the method reports
-    (``reports``: method id → PDF bytes) are bound in between as they are
-    (:mod:`~dossier.render.binder`). The contents name dossier pages, so the
-    front matter is laid out again in the rare case that its own length
-    differs from the first guess.
+    are bound in between as they are (:mod:`~dossier.render.binder`). The
+    contents name dossier pages, so the front matter is laid out again in
+    the rare case that its own length differs from the first guess.
     """
     from .binder import BoundReport, bind, page_count
 
@@ -220,7 +222,7 @@ def dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes],
         for a, n in zip(analyses, lengths):
             starts[a.method.id] = page
             page += n
-        doc = _document(render("pdf_dossier.html", root="", build=build, analyses=analyses, starts=starts, signatures_page=page, **_common()), "", files)
+        doc = _document(render("pdf_dossier.html", root="", build=ctx.info, analyses=analyses, starts=starts, signatures_page=page, **_common()), "", files)
         split = next(i for i, pg in enumerate(doc.pages) if "dossier-signatures" in pg.anchors)
         if split == n_front:
             break
@@ -229,28 +231,26 @@ def dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes],
         raise RuntimeError("the dossier's front matter did not settle to a fixed length")
     front = doc.copy(doc.pages[:split]).write_pdf()
     back = doc.copy(doc.pages[split:]).write_pdf()
-    bound = bind(front, [BoundReport(a.method.id, a.method.title, reports[a.method.id]) for a in analyses], back,
-                 title="pH calculation dossier", creator=f"ph-dossier {build.version}")
-    return {"dossier.pdf": bound}
+    return bind(front, [BoundReport(a.method.id, a.method.title, reports[a.method.id]) for a in analyses], back,
+                title="pH calculation dossier", creator=f"ph-dossier {ctx.info.version}")
 
 
-def render_site(analyses: tuple[MethodAnalysis, ...], build: BuildInfo, diff: DossierDiff | None = None) -> dict[str, bytes]:
-    """The pages about the whole dossier: index, references, calculation methods,
-    provenance, and the changes since a previous build when ``diff`` is given."""
-    table = load_table()
+def _dossier_pages(analyses: tuple[MethodAnalysis, ...], ctx: BuildContext, diff: DossierDiff | None) -> dict[str, bytes]:
+    """Index, references, calculation methods, provenance, and the changes page when ``diff`` is given."""
+    table, build = ctx.table, ctx.info
     out: dict[str, bytes] = {}
     counts = {k: sum(s.verdict.status == k for a in analyses for sa in a.solutions for s in sa.shortcuts) for k in VerdictStatus}
-    out["index.html"] = render("index.html", root="", build=build, analyses=analyses, counts=counts, has_changes=diff is not None).encode()
+    out[LAYOUT.index] = render("index.html", root="", build=build, analyses=analyses, counts=counts, has_changes=diff is not None).encode()
     if diff is not None:
-        out["changes.html"] = render("changes.html", root="", build=build, diff=diff).encode()
-    out["references.html"] = render(
+        out[LAYOUT.changes] = render("changes.html", root="", build=build, diff=diff).encode()
+    out[LAYOUT.references] = render(
         "references.html", root="", build=build,
         method_refs=[(a, references_for(a.method, table, prefix=f"{a.method.id}-")) for a in analyses],
         table_sources=list(table.sources.values()),
     ).encode()
-    out["calculations.html"] = render(
+    out[LAYOUT.calculations] = render(
         "calculations.html", root="", build=build, exact_model=EXACT_MODEL,
         activity_models=list(ACTIVITY_MODELS.values()), shortcuts=list(CATALOGUE.values()),
     ).encode()
-    out["provenance.html"] = render("provenance.html", root="", build=build, analyses=analyses).encode()
+    out[LAYOUT.provenance] = render("provenance.html", root="", build=build, analyses=analyses).encode()
     return out

@@ -12,8 +12,9 @@ from pathlib import Path
 import pytest
 
 from dossier.analysis.method import AnalysisSettings, analyse_method
-from dossier.analysis.results import csv_tables, results_document
+from dossier.render.results import csv_tables, results_document
 from dossier.inputs.loader import load_method
+from dossier.inputs.substances import load_table
 from dossier.render.figures import method_figures
 
 from tests.builders import MethodBuilder
@@ -74,7 +75,7 @@ def test_justification_has_every_number_and_the_cautions() -> None:
 
 
 def test_results_document_has_the_documented_keys() -> None:
-    doc = json.loads(json.dumps(results_document(demo("tris-buffer-37c"))))
+    doc = json.loads(json.dumps(results_document(demo("tris-buffer-37c"), load_table().sha256)))
     assert doc["format"] == "ph-dossier-results/1"
     assert set(doc["method"]) >= {"id", "revision", "source_sha256"}
     assert set(doc["criteria"]) == {"max_ph_error", "probability"}

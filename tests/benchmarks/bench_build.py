@@ -8,7 +8,7 @@ import tempfile
 import time
 from pathlib import Path
 
-from dossier.pipeline import build
+from dossier.app import build
 
 from .run import Row
 

@@ -145,6 +145,6 @@ def test_two_builds_at_once_one_refuses_and_the_result_is_whole(project: Path) -
     assert "another build is writing output (pid" in second.stderr and "try again when it has finished" in second.stderr
     _, err = first.communicate(timeout=600)
     assert first.returncode == 0, err
-    from dossier.publish.verify import verify
+    from dossier.audit.verify import verify
 
     assert verify(project / "output").ok

@@ -18,21 +18,23 @@ import yaml
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from dossier.analysis.ledger import ledger_of
 from dossier.analysis.method import AnalysisSettings, analyse_method
 from dossier.analysis.pointwise import evaluate_method
-from dossier.analysis.results import results_document
 from dossier.inputs.loader import load_method_bytes
+from dossier.inputs.substances import load_table
+from dossier.layout import LAYOUT
 from dossier.problems import Severity
 from dossier.render.buildinfo import BuildInfo
-from dossier.render.html import render
-from dossier.render.site import _common, _page_context
-from dossier.inputs.substances import load_table
+from dossier.render.context import BuildContext
+from dossier.render.site import render_method
 
 ROOT = Path(__file__).resolve().parents[2]
 DEMO = {p.name: p.read_bytes() for p in sorted((ROOT / "methods").glob("*.yaml"))}
 DATA = {name: yaml.safe_load(raw) for name, raw in DEMO.items()}
 TINY = AnalysisSettings(draws=200, map_pka=5, map_conc=5)
 INFO = BuildInfo("0", "2026-01-01 00:00 UTC", "3", (), load_table().sha256, 200, 1)
+CONTEXT = BuildContext(load_table(), TINY, INFO, pdf=False, site=True, figures=False)
 
 NASTY_NUMBERS = [0, -1, -1e-9, 1e308, -1e308, 1e-320, float("nan"), float("inf"), float("-inf"), 10**30, True]
 NASTY_TEXT = ["", " ", "x" * 20_000, "\u202eevil\u202c", "مرحبا بالعالم", "日本語のテキスト", "tab\there", "line\nbreak", "<script>alert(1)</script>", "${}\\x00", "ε" * 500]
@@ -105,11 +107,11 @@ def mutated(draw: st.DrawFn) -> tuple[str, bytes]:
 
 
 def smoke_build(method) -> None:  # noqa: ANN001
-    """Solve, analyse (small settings) and render the method's page and results."""
+    """Solve, analyse (small settings) and render the method's page, ledger and results (no figures, no PDF)."""
     evaluate_method(method)
     analysis = analyse_method(method, TINY)
-    results_document(analysis)
-    render("method.html", root="../../", build=INFO, **_page_context(analysis, (), load_table()), **_common())
+    files = render_method(analysis, ledger_of(analysis), CONTEXT)
+    assert {LAYOUT.results(method.id), LAYOUT.method_page(method.id), LAYOUT.ledger(method.id)} <= files.keys()
 
 
 STATS = {"cases": 0, "rejected": 0, "accepted": 0}

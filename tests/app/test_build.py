@@ -1,4 +1,4 @@
-"""Manifest, ledger, verify, byte-identical and atomic builds, cache, diff."""
+"""The build (dossier.app.build): manifest, ledger, verify, byte-identical and atomic builds, cache, diff."""
 
 from __future__ import annotations
 
@@ -11,11 +11,11 @@ from pathlib import Path
 
 import pytest
 
-from dossier import pipeline
 from dossier.analysis.method import AnalysisSettings
+from dossier.app import BuildOptions, verify
+from dossier.app import build_dossier as build_module
+from dossier.app.build_dossier import OutputError
 from dossier.publish import writer as writer_module
-from dossier.publish.verify import verify
-from dossier.render import site as site_module
 
 ROOT = Path(__file__).resolve().parents[2]
 FAST = AnalysisSettings(draws=2000, map_pka=21, map_conc=31)
@@ -38,7 +38,7 @@ def tree(folder: Path) -> dict[str, str]:
 def build(tmp: Path, out: Path, **kw):  # noqa: ANN003, ANN201
     kw.setdefault("settings", FAST)
     kw.setdefault("workers", 1)
-    return pipeline.build([methods_dir(tmp)], out, **kw)
+    return build_module.build([methods_dir(tmp)], out, BuildOptions(**kw))
 
 
 def test_manifest_lists_versions_inputs_outputs_settings(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
@@ -139,7 +139,7 @@ def test_a_failed_write_leaves_the_previous_dossier_and_no_staging(tmp_path: Pat
         return real(self, rel, data)
 
     monkeypatch.setattr(writer_module.Writer, "write", failing)
-    with pytest.raises(OSError):
+    with pytest.raises(OutputError, match="the previous dossier is unchanged"):
         build(tmp_path, out, pdf=False, cache=False)
     assert tree(out) == before
     assert not [p for p in tmp_path.iterdir() if "staging" in p.name]
@@ -153,7 +153,7 @@ def test_an_exception_in_rendering_leaves_the_previous_dossier(tmp_path: Path, m
     def broken(*a, **k):  # noqa: ANN002, ANN003, ANN202
         raise RuntimeError("template exploded")
 
-    monkeypatch.setattr(site_module, "render_site", broken)
+    monkeypatch.setattr(build_module, "render_dossier", broken)
     with pytest.raises(RuntimeError, match="template exploded"):
         build(tmp_path, out, pdf=False, cache=False)
     assert tree(out) == before
@@ -165,13 +165,13 @@ def test_nothing_changed_recomputes_nothing_and_one_change_recomputes_one(tmp_pa
     first = build(tmp_path, out, pdf=False)
     assert set(first.recomputed) == {"benzoate-extract", "tris-buffer-37c"}
     calls: list[str] = []
-    real = pipeline._method_job
+    real = build_module.method_job
 
     def counting(method, *a):  # noqa: ANN001, ANN002, ANN202
         calls.append(method.id)
         return real(method, *a)
 
-    monkeypatch.setattr(pipeline, "_method_job", counting)
+    monkeypatch.setattr(build_module, "method_job", counting)
     again = build(tmp_path, out, pdf=False)
     assert again.recomputed == () and calls == []
     assert verify(out).ok  # published again, complete, every number still re-computes
@@ -189,7 +189,7 @@ def test_diff_and_the_changes_page(tmp_path: Path) -> None:
     m.write_text(m.read_text(encoding="utf-8").replace("max_ph_error: 0.05", "max_ph_error: 0.2").replace('revision: "3"', 'revision: "4"'), encoding="utf-8")
     new = tmp_path / "new"
     assert build(tmp_path, new, pdf=False, previous=old).ok
-    from dossier.publish.diff import diff_dossiers
+    from dossier.audit.diff import diff_dossiers
 
     d = diff_dossiers(old, new)
     (changed,) = d.changed

@@ -18,17 +18,19 @@ import pickle
 import tempfile
 from functools import lru_cache
 from pathlib import Path
-from typing import Any
+from typing import Any, TypeVar
 
 from .. import __version__
 
 __all__ = ["Cache", "tool_fingerprint", "method_key", "dossier_key"]
 
+T = TypeVar("T")
+
 
 @lru_cache(maxsize=1)
 def tool_fingerprint() -> str:
     """SHA-256 over the tool's code, data and templates (changes whenever the tool does)."""
-    pkg = Path(__file__).resolve().parents[1]
+    pkg = Path(__file__).resolve().parents[1]  # the dossier package
     from importlib import resources
 
     templates = Path(str(resources.files("dossier.templates")))
@@ -68,17 +70,20 @@ class Cache:
     def _path(self, kind: str, key: str) -> Path:
         return self.root / kind / f"{key}.pickle"
 
-    def get(self, kind: str, key: str) -> Any | None:
+    def get(self, kind: str, key: str, expected: type[T]) -> T | None:
+        """The entry stored under ``kind``/``key`` if it is an ``expected``, else None (a miss)."""
         path = self._path(kind, key)
         try:
             with open(path, "rb") as fh:
                 value = pickle.load(fh)
         except (OSError, pickle.UnpicklingError, EOFError, AttributeError, ImportError, TypeError, ValueError):
             return None
+        if not isinstance(value, expected):
+            return None
         self.used.add(path)
         return value
 
-    def put(self, kind: str, key: str, value: Any) -> None:
+    def put(self, kind: str, key: str, value: object) -> None:
         """Store an entry (atomically); a cache that cannot be written is skipped, not an error."""
         path = self._path(kind, key)
         try:

@@ -12,13 +12,12 @@ import io
 from typing import Any
 
 from .. import __version__
+from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
+from ..analysis.montecarlo import Comparison, Summary
+from ..analysis.sensitivity import GumResult
+from ..analysis.validity import Interval, Sweep
 from ..chemistry.activity import BATES_GUGGENHEIM_BA, DAVIES_COEFFICIENT
 from ..chemistry.solver import TOLERANCE
-from ..inputs.substances import load_table
-from .method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
-from .montecarlo import Comparison, Summary
-from .sensitivity import GumResult
-from .validity import Interval, Sweep
 
 __all__ = ["RESULTS_FORMAT", "results_document", "csv_tables"]
 
@@ -172,14 +171,17 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
     }
 
 
-def results_document(analysis: MethodAnalysis) -> dict[str, Any]:
-    """The ``results.json`` document of one method (see docs/results-format.md)."""
+def results_document(analysis: MethodAnalysis, table_sha256: str) -> dict[str, Any]:
+    """The ``results.json`` document of one method (see docs/results-format.md).
+
+    ``table_sha256``: the SHA-256 of the substance table the method was loaded with.
+    """
     m = analysis.method
     return {
         "format": RESULTS_FORMAT,
         "tool": {"name": "ph-dossier", "version": __version__},
         "method": {"id": m.id, "title": m.title, "revision": m.revision, "source_sha256": m.source_sha256},
-        "substance_table_sha256": load_table().sha256,
+        "substance_table_sha256": table_sha256,
         "criteria": {"max_ph_error": m.criteria.max_ph_error, "probability": m.criteria.probability},
         "settings": {
             "solver_tolerance_ln_h": TOLERANCE,

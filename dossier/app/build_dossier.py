@@ -1,0 +1,310 @@
+"""The build: load → solve and analyse → render → publish.
+
+Everything is loaded and checked before anything is analysed, everything is
+analysed and rendered (in memory) before anything is written, and the files
+are written through the one writer into a staging folder that replaces the
+output in one step at the end: a build that fails leaves the previous
+dossier exactly as it was.
+
+A content-hash cache (:mod:`dossier.audit.cache`) keeps each method's
+outcome: an unchanged method is not recomputed, and a rebuild with nothing
+changed recomputes nothing.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import os
+import platform
+import time
+from collections.abc import Iterator, Sequence
+from contextlib import contextmanager
+from dataclasses import dataclass, field
+from datetime import datetime, timezone
+from pathlib import Path
+from typing import Any
+
+from .. import __version__, limits
+from ..analysis.ledger import Ledger
+from ..analysis.method import AnalysisSettings, MethodAnalysis
+from ..audit.cache import Cache, dossier_key, method_key
+from ..audit.diff import DossierDiff, NotADossier, diff_ledgers, read_ledgers
+from ..chemistry import solver
+from ..inputs.loader import load_paths
+from ..inputs.model import Method
+from ..inputs.substances import SubstanceTable, load_table
+from ..layout import LAYOUT
+from ..problems import Problem
+from ..publish.manifest import InputRecord, MethodRecord, dependency_versions, new_manifest, portable_path
+from ..publish.staging import PublishError, check_replaceable, output_lock, remove_stale_staging, staging_folder, swap_into_place
+from ..publish.writer import Writer
+from ..render.buildinfo import BuildInfo
+from ..render.context import BuildContext
+from ..render.site import render_dossier
+from .errors import UserError
+from .jobs import MethodOutcome, Reporter, Silent, WorkerPool, expected_cost, method_job
+
+__all__ = ["BuildOptions", "BuildOutcome", "PreviousDossierError", "OutputError", "build", "analyse", "build_time", "solver_settings"]
+
+
+class PreviousDossierError(UserError):
+    """The dossier given as ``--previous`` cannot be read (the message says why)."""
+
+
+class OutputError(UserError):
+    """The output cannot be written or replaced; the previous output is unchanged."""
+
+
+@dataclass(frozen=True)
+class BuildOptions:
+    """How to build.
+
+    Attributes
+    ----------
+    settings : AnalysisSettings
+    pdf : bool
+        Make the PDFs.
+    site : bool
+        Make the pages (False: results, tables, figures, ledgers; ``dossier analyse``).
+    figures : bool
+        Draw the figures (a site always has them).
+    strict : bool
+        Warnings in method files are errors.
+    workers : int, optional
+        Processes to use (default: one per core).
+    previous : Path, optional
+        A dossier built before (it may be the output itself): the new dossier
+        gets a page of the changes since it.
+    cache : bool
+        Use the content-hash cache beside the output.
+    """
+
+    settings: AnalysisSettings = field(default_factory=AnalysisSettings)
+    pdf: bool = True
+    site: bool = True
+    figures: bool = True
+    strict: bool = False
+    workers: int | None = None
+    previous: Path | None = None
+    cache: bool = True
+
+
+@dataclass(frozen=True)
+class BuildOutcome:
+    """What a build did.
+
+    Attributes
+    ----------
+    ok : bool
+        True when the dossier was published.
+    problems : tuple of Problem
+        Every input problem (warnings too).
+    output : Path
+    files : dict
+        {relative path: SHA-256} of everything written (the manifest included).
+    timings : dict
+        Seconds per stage.
+    analyses : tuple of MethodAnalysis
+    recomputed : tuple of str
+        Ids of the methods analysed in this build (the others came from the cache).
+    """
+
+    ok: bool
+    problems: tuple[Problem, ...]
+    output: Path
+    files: dict[str, str] = field(default_factory=dict)
+    timings: dict[str, float] = field(default_factory=dict)
+    analyses: tuple[MethodAnalysis, ...] = ()
+    recomputed: tuple[str, ...] = ()
+
+
+def build_time() -> str:
+    """The build time: ``SOURCE_DATE_EPOCH`` when set (reproducible builds), else now; UTC."""
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    moment = datetime.fromtimestamp(int(epoch), tz=timezone.utc) if epoch and epoch.isdigit() else datetime.now(tz=timezone.utc)
+    return moment.strftime("%Y-%m-%d %H:%M UTC")
+
+
+def solver_settings(settings: AnalysisSettings, pdf: bool) -> dict[str, Any]:
+    """The settings a manifest records: solver tolerances, grids, Monte Carlo, outputs."""
+    from ..analysis import validity
+
+    return {
+        "solver": {"tolerance_ln_h": solver.TOLERANCE, "max_newton_iterations": solver._MAX_NEWTON, "max_ionic_strength_iterations": solver._MAX_OUTER, "block_points": solver.CHUNK},
+        "validity": {
+            "concentration_span_mol_per_l": list(limits.SWEEP_CONCENTRATION),
+            "concentration_points": validity.CONCENTRATION_POINTS,
+            "pka_span": list(limits.SWEEP_PKA),
+            "pka_points": validity.PKA_POINTS,
+            "concentration_rel_tolerance": limits.VALIDITY_CONCENTRATION_REL_TOLERANCE,
+            "pka_tolerance": limits.VALIDITY_PKA_TOLERANCE,
+        },
+        "monte_carlo": {"draws": settings.draws, "seed": settings.seed, "generator": "numpy PCG64, SeedSequence(seed, spawn_key=(solution index,))"},
+        "maps": {"pka_points": settings.map_pka, "concentration_points": settings.map_conc},
+        "pdf": pdf,
+    }
+
+
+@contextmanager
+def _timed(timings: dict[str, float], name: str) -> Iterator[None]:
+    t0 = time.perf_counter()
+    try:
+        yield
+    finally:
+        timings[name] = timings.get(name, 0.0) + time.perf_counter() - t0
+
+
+def build(paths: Sequence[str | Path], output: str | Path, options: BuildOptions | None = None, *, reporter: Reporter | None = None) -> BuildOutcome:
+    """Build the dossier of the method files under ``paths`` into ``output``.
+
+    Returns
+    -------
+    BuildOutcome
+        ``ok`` False (and nothing written) when any input has an error.
+
+    Raises
+    ------
+    OutputError
+        When the output cannot be written or replaced (the previous output is kept).
+    PreviousDossierError
+        When ``options.previous`` is not a readable built dossier.
+    """
+    try:
+        return _build(paths, output, options or BuildOptions(), reporter or Silent())
+    except PublishError as exc:
+        raise OutputError(f"{exc}; the previous dossier is unchanged") from None
+
+
+def analyse(paths: Sequence[str | Path], output: str | Path, settings: AnalysisSettings | None = None, *, figures: bool = True,
+            reporter: Reporter | None = None, workers: int | None = None) -> BuildOutcome:
+    """Analyse method files and publish only the machine-readable part: per
+    method its results, CSV tables, figures and ledger, with the manifest
+    (the same writer, staging and swap as :func:`build`; no pages, no PDFs)."""
+    options = BuildOptions(settings=settings or AnalysisSettings(), pdf=False, site=False, figures=figures, workers=workers)
+    return build(paths, output, options, reporter=reporter)
+
+
+def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, rep: Reporter) -> BuildOutcome:
+    out = Path(output)
+    timings: dict[str, float] = {}
+    table = load_table()
+    with _timed(timings, "check inputs"):
+        rep.stage("checking method files", 1)
+        inputs = load_paths(list(paths), strict=opts.strict, table=table)
+        rep.step("method files checked")
+    if not inputs.ok or not inputs.methods:
+        return BuildOutcome(False, inputs.problems, out, timings=timings)
+    previous = _previous_ledgers(opts.previous)
+    check_replaceable(out)
+    with output_lock(out):
+        remove_stale_staging(out)
+        info = BuildInfo(__version__, build_time(), platform.python_version(), dependency_versions(), table.sha256, opts.settings.draws, opts.settings.seed)
+        ctx = BuildContext(table, opts.settings, info, pdf=opts.pdf and opts.site, site=opts.site, figures=opts.figures or opts.site)
+        store = Cache.beside(out) if opts.cache else None
+        outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, opts.workers, rep, timings)
+        diff = None if previous is None else diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build")
+        files = _dossier_files(outcomes, ctx, diff, store, rep, timings)
+        written = _publish(files, inputs.methods, ctx, out, rep, timings)
+        if store:
+            store.prune()  # what this build did not use
+    return BuildOutcome(True, inputs.problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed)
+
+
+def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
+    if previous is None:
+        return None
+    try:
+        return read_ledgers(Path(previous))
+    except NotADossier as exc:
+        raise PreviousDossierError(f"{previous} is not a dossier built before: {exc}") from None
+
+
+def _keys(methods: tuple[Method, ...], ctx: BuildContext) -> dict[str, str]:
+    config = solver_settings(ctx.settings, ctx.pdf)
+    return {m.id: method_key(m.source_sha256, ctx.table.sha256, {**config, "site": ctx.site, "figures": ctx.figures}, ctx.pdf) for m in methods}
+
+
+def _method_outcomes(methods: tuple[Method, ...], ctx: BuildContext, store: Cache | None, workers: int | None, rep: Reporter,
+                     timings: dict[str, float]) -> tuple[tuple[MethodOutcome, ...], tuple[str, ...]]:
+    """Each method's outcome: from the cache where its inputs are unchanged, else from its job."""
+    keys = _keys(methods, ctx)
+    cached = {m.id: (store.get("methods", keys[m.id], MethodOutcome) if store else None) for m in methods}
+    todo = sorted((m for m in methods if cached[m.id] is None), key=expected_cost, reverse=True)  # longest first
+    n_workers = max(1, min(workers or os.cpu_count() or 1, len(todo) or 1))
+    stage = "analyse, plot and render methods" + (" (pages and PDFs)" if ctx.pdf else " (pages)" if ctx.site else "")
+    with WorkerPool(n_workers if todo else 1) as pool, _timed(timings, stage):
+        rep.stage("analysing and rendering methods", len(todo))
+        fresh = pool.run(method_job, todo, ctx, [m.id for m in todo], rep)
+    got = {**{mid: o for mid, o in cached.items() if o is not None}, **{m.id: o for m, o in zip(todo, fresh)}}
+    if store:
+        for m, o in zip(todo, fresh):
+            store.put("methods", keys[m.id], o)
+    return tuple(got[m.id] for m in methods), tuple(m.id for m in todo)
+
+
+def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff: DossierDiff | None, store: Cache | None, rep: Reporter,
+                   timings: dict[str, float]) -> dict[str, bytes]:
+    """Every file of the dossier: each method's, then the dossier-wide pages and PDF (cached too)."""
+    files: dict[str, bytes] = {}
+    for o in outcomes:
+        files.update(o.files)
+    if not ctx.site:
+        return files
+    diff_key = None if diff is None else hashlib.sha256(repr(diff).encode()).hexdigest()
+    key = dossier_key(list(_keys(tuple(o.analysis.method for o in outcomes), ctx).values()), {"pdf": ctx.pdf, "diff": diff_key})
+    site = store.get("dossier", key, dict) if store else None
+    if site is None:
+        with _timed(timings, "render the dossier pages" + (" and bind the dossier PDF" if ctx.pdf else "")):
+            rep.stage("rendering the dossier", 1)
+            pdfs = {o.analysis.method.id: o.files[LAYOUT.method_pdf(o.analysis.method.id)] for o in outcomes} if ctx.pdf else {}
+            site = render_dossier(tuple(o.analysis for o in outcomes), pdfs, ctx, diff)
+            rep.step("index, references, calculations, provenance" + (", dossier.pdf" if ctx.pdf else ""))
+        if store:
+            store.put("dossier", key, site)
+    files.update(site)
+    return files
+
+
+@contextmanager
+def _as_publish_error(out: Path) -> Iterator[None]:
+    """A file-system error while writing becomes a PublishError that says what and where."""
+    try:
+        yield
+    except PublishError:
+        raise
+    except OSError as exc:
+        where = f" ({exc.filename})" if getattr(exc, "filename", None) else ""
+        raise PublishError(f"cannot write the dossier into {out}: {exc.strerror or exc}{where}") from None
+
+
+def _inputs_record(methods: tuple[Method, ...], table: SubstanceTable) -> tuple[InputRecord, ...]:
+    """Every input file: each method file, and the substance table."""
+    out = []
+    for m in methods:
+        p = Path(m.path)
+        out.append(InputRecord(portable_path(p), m.source_sha256, p.stat().st_size if p.exists() else None, "method"))
+    out.append(InputRecord("dossier/data/substances.yaml", table.sha256, table.size, "substance table"))
+    return tuple(out)
+
+
+def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext, out: Path, rep: Reporter, timings: dict[str, float]) -> dict[str, str]:
+    """Write every file into a staging folder, the manifest last, and swap it into place."""
+    keys = _keys(methods, ctx)
+    with _timed(timings, "publish"), _as_publish_error(out):
+        rep.stage("publishing", 1)
+        with staging_folder(out) as staging:
+            writer = Writer(staging)
+            for rel in sorted(files):
+                writer.write(rel, files[rel])
+            manifest = new_manifest(
+                build_time=ctx.info.time,
+                python=ctx.info.python,
+                settings=solver_settings(ctx.settings, ctx.pdf),
+                inputs=_inputs_record(methods, ctx.table),
+                methods=tuple(MethodRecord(m.id, m.revision, portable_path(m.path), m.source_sha256, keys[m.id]) for m in methods),
+                outputs={rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written},
+            )
+            writer.write(LAYOUT.manifest, manifest.to_bytes())
+            swap_into_place(staging, out)
+        rep.step(f"published {len(writer.written)} files")
+    return dict(writer.written)
