@@ -92,6 +92,7 @@ def test_figures_carry_the_text_as_text(hostile_build: Path) -> None:
         assert not [e for e in root.iter() if any(k.startswith("on") for k in e.attrib)], svg
 
 
+@pytest.mark.browser
 def test_the_browser_runs_nothing(hostile_build: Path) -> None:
     chromium = require_executable("chromium", "hostile text is checked in a real browser")
     from playwright.sync_api import sync_playwright
