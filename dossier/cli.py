@@ -2,7 +2,10 @@
 prints, and turns every expected failure into a message and an exit code.
 
 Exit codes: 0 success; 1 bad input (a method file, a value); 2 usage error
-(unknown option, missing argument); 3 internal error (a bug: please report).
+(unknown option, missing argument); 3 internal error (a bug: please report);
+130 interrupted (Ctrl-C, SIGTERM); 141 the reader of the output went away
+(``dossier diff A B | head``): the command stops quietly with the status a
+shell reports for a program ended by SIGPIPE (128 + 13).
 """
 
 from __future__ import annotations
@@ -19,12 +22,14 @@ from . import __version__
 if TYPE_CHECKING:
     from .inputs.model import Method
 
-__all__ = ["main", "EXIT_OK", "EXIT_INPUT", "EXIT_USAGE", "EXIT_INTERNAL"]
+__all__ = ["main", "EXIT_OK", "EXIT_INPUT", "EXIT_USAGE", "EXIT_INTERNAL", "EXIT_CLOSED_PIPE"]
 
 EXIT_OK = 0
 EXIT_INPUT = 1
 EXIT_USAGE = 2
 EXIT_INTERNAL = 3
+EXIT_CLOSED_PIPE = 141
+"""128 + SIGPIPE (13): what a shell reports for a tool whose reader closed the pipe."""
 
 
 class InputFailure(Exception):
@@ -36,10 +41,19 @@ class InputFailure(Exception):
 
 
 def _console():  # noqa: ANN202 - rich.console.Console, imported lazily
-    """A rich console; wide and without colour when the output is not a terminal."""
+    """A rich console; wide and without colour when the output is not a terminal.
+
+    A closed output pipe raises BrokenPipeError (handled once, in :func:`main`)
+    instead of rich's own exit with status 1.
+    """
     from rich.console import Console
 
-    return Console() if sys.stdout.isatty() else Console(width=150, no_color=True, highlight=False)
+    class _PipeAwareConsole(Console):
+        def on_broken_pipe(self) -> None:
+            self.quiet = True
+            raise BrokenPipeError
+
+    return _PipeAwareConsole() if sys.stdout.isatty() else _PipeAwareConsole(width=150, no_color=True, highlight=False)
 
 
 # ---------------------------------------------------------------- solve
@@ -604,6 +618,21 @@ def _terminate_as_interrupt() -> None:
     signal.signal(signal.SIGTERM, handler)
 
 
+def _closed_pipe() -> int:
+    """The reader of standard output went away: stop quietly.
+
+    Standard output is pointed at the null device so that Python's final flush
+    of the unwritable buffer raises nothing at exit.
+    """
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError):  # stdout without a file descriptor (embedded use)
+        pass
+    return EXIT_CLOSED_PIPE
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code (also used by ``python -m dossier``)."""
     parser = build_parser()
@@ -613,7 +642,11 @@ def main(argv: Sequence[str] | None = None) -> int:
     except SystemExit as exc:  # argparse: --help/--version exit 0, usage errors exit 2
         return int(exc.code or 0)
     try:
-        return int(args.run(args))
+        code = int(args.run(args))
+        sys.stdout.flush()  # a closed pipe shows here, not at interpreter exit
+        return code
+    except BrokenPipeError:
+        return _closed_pipe()
     except InputFailure as exc:
         if str(exc):
             print(f"dossier {args.command}: {exc}", file=sys.stderr)

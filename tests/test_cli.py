@@ -79,3 +79,28 @@ def test_usage_error_exits_2() -> None:
 def test_version() -> None:
     r = run("--version")
     assert r.returncode == 0 and r.stdout.startswith("ph-dossier ")
+
+
+def _with_reader_gone(*args: str) -> tuple[int, str]:
+    """Run the command with its standard output a pipe whose reader has closed it
+    (as ``| head`` does once it has its lines); exit code and standard error."""
+    proc = subprocess.Popen([sys.executable, "-m", "dossier", *args], stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    proc.stdout.close()  # the only reader: every write of the child now fails with EPIPE
+    err = proc.stderr.read()
+    proc.stderr.close()
+    return proc.wait(timeout=120), err
+
+
+@pytest.mark.parametrize("args", [("substances",), ("schema",), ("solve", "--pka", "4.756", "--conc", "10 mmol/L", "--json"),
+                                  ("solve", "--pka", "4.756", "--conc", "10 mmol/L")])
+def test_a_closed_output_pipe_ends_the_command_quietly(args: tuple[str, ...]) -> None:
+    code, err = _with_reader_gone(*args)
+    assert (code, err) == (141, "")  # 128 + SIGPIPE, as a shell reports for tools ended by a closed pipe
+
+
+def test_piped_into_head_through_a_shell() -> None:
+    command = f"'{sys.executable}' -m dossier substances | head -n 1; echo \"status ${{PIPESTATUS[0]}}\" >&2"
+    r = subprocess.run(["bash", "-c", command], capture_output=True, text=True, timeout=120)
+    assert r.stdout.startswith("Substance table")
+    assert r.stderr.splitlines()[-1] in ("status 0", "status 141"), r.stderr  # 0 if all was written before head left
+    assert len(r.stderr.splitlines()) == 1, r.stderr

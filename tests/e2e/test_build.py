@@ -74,3 +74,13 @@ def test_progress_lines_quiet_and_timings(tmp_path: Path) -> None:
     q = run("build", str(methods), "-o", str(tmp_path / "o"), "--draws", "1000", "--no-pdf", "--quiet")
     assert q.returncode == 0 and q.stderr == ""
     assert q.stdout.startswith("built ")
+
+
+def test_diff_into_a_closed_pipe_stops_quietly(built: Path) -> None:
+    """`dossier diff A B | head`: the reader leaves, the command ends with 141 and no message."""
+    proc = subprocess.Popen([sys.executable, "-m", "dossier", "diff", str(built), str(built)], cwd=ROOT,
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    proc.stdout.close()  # the only reader is gone before the first line is written
+    err = proc.stderr.read()
+    proc.stderr.close()
+    assert (proc.wait(timeout=300), err) == (141, "")
