@@ -29,8 +29,11 @@ __all__ = [
 ]
 
 FORMAT = "ph-dossier-method/1"
-ID_PATTERN = r"^[a-z0-9][a-z0-9._-]{0,62}$"
-ID_RULE = "lower-case letters, digits, '-', '_' or '.', starting with a letter or digit, at most 63 characters"
+ID_PATTERN = r"^[A-Za-z0-9][A-Za-z0-9._-]{0,62}$"
+ID_RULE = "letters (a-z, A-Z), digits, '-', '_' or '.', starting with a letter or digit, at most 63 characters"
+"""Ids become folder and file names. Upper case is allowed (``QC-M-0042``); two
+ids of one dossier that differ only in case are refused by the checks, since a
+case-insensitive file system would give them one folder."""
 
 ActivityId = Literal["ideal", "debye-huckel", "extended-debye-huckel", "davies"]
 SourceKind = Literal[SOURCE_KINDS]  # type: ignore[valid-type]

@@ -158,9 +158,16 @@ def test_new_then_check(tmp_path: Path) -> None:
     again = run("new", "my-method", cwd=tmp_path)
     assert again.returncode == 1
     assert again.stderr.strip() == "dossier new: my-method.yaml exists; choose another name with -o or add --force"
+    upper = run("new", "QC-M-0042", cwd=tmp_path)  # laboratories number their methods so
+    assert upper.returncode == 0, upper.stderr
+    assert "id: QC-M-0042 " in (tmp_path / "QC-M-0042.yaml").read_text(encoding="utf-8")
+    assert run("check", "--strict", "QC-M-0042.yaml", cwd=tmp_path).returncode == 0
     bad = run("new", "My Method", cwd=tmp_path)
     assert bad.returncode == 2
-    assert "a method id is lower-case letters" in bad.stderr
+    assert bad.stderr.strip().endswith(
+        "dossier new: error: argument ID: a method id is letters (a-z, A-Z), digits, '-', '_' or '.', "
+        "starting with a letter or digit, at most 63 characters; got 'My Method'"
+    )
 
 
 def test_schema_command_prints_the_schema() -> None:
