@@ -196,6 +196,8 @@ def _message(err: dict[str, Any]) -> str:
         return f"must be {ID_RULE}; got {_show(value)}"
     if kind in ("string_type",):
         if _is_concentration(loc) and isinstance(value, (int, float)) and not isinstance(value, bool):
+            if loc[-1] == "tolerance":
+                return f"needs a unit: write e.g. '{value} %' (of the concentration) or '{value} mmol/L' (allowed: %, {ALLOWED_UNITS})"
             return f"needs a unit: write e.g. '{value} mmol/L' (allowed: {ALLOWED_UNITS})"
         return f"must be text; got {_show(value)}"
     if kind == "string_too_short":
