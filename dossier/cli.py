@@ -14,6 +14,7 @@ import argparse
 import os
 import sys
 from collections.abc import Callable, Sequence
+from pathlib import Path
 
 from typing import TYPE_CHECKING
 
@@ -391,9 +392,12 @@ def _add_verify(sub: argparse._SubParsersAction) -> None:
 
 
 def _run_verify(args: argparse.Namespace) -> int:
-    from .publish.verify import verify
+    from .publish.verify import NotADossierError, verify
 
-    report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True))
+    try:
+        report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True))
+    except NotADossierError as exc:
+        raise InputFailure(str(exc)) from None
     for note in report.notes:
         print(f"note: {note}")
     for m in report.mismatches:
@@ -450,14 +454,28 @@ def _add_serve(sub: argparse._SubParsersAction) -> None:
     p.set_defaults(run=_run_serve)
 
 
+def _not_a_built_dossier(folder: Path) -> str:
+    """Why ``folder`` cannot be served ('' when it holds a built dossier)."""
+    needs = "serve needs a dossier folder built by `dossier build`"
+    if folder.is_file():
+        example = f"dossier build {folder} -o output, then dossier serve output" if folder.suffix in (".yaml", ".yml") else "dossier build methods -o output, then dossier serve output"
+        return f"{folder} is a file, not a dossier folder: {needs} (e.g. {example})"
+    if not folder.is_dir():
+        return f"no such folder {folder}: {needs} (e.g. dossier build methods -o {folder})"
+    if not (folder / "index.html").is_file():
+        return f"{folder} holds no built dossier (no index.html): {needs} (e.g. dossier build methods -o output, then dossier serve output)"
+    return ""
+
+
 def _run_serve(args: argparse.Namespace) -> int:
     import functools
     from http.server import SimpleHTTPRequestHandler, ThreadingHTTPServer
     from pathlib import Path
 
     folder = Path(args.folder)
-    if not (folder / "index.html").is_file():
-        raise InputFailure(f"{folder} holds no built dossier (no index.html); run: dossier build -o {folder}")
+    problem = _not_a_built_dossier(folder)
+    if problem:
+        raise InputFailure(problem)
 
     class Quiet(SimpleHTTPRequestHandler):
         def log_message(self, format: str, *a: object) -> None:  # noqa: A002 - the base class's name

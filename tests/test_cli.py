@@ -104,3 +104,42 @@ def test_piped_into_head_through_a_shell() -> None:
     assert r.stdout.startswith("Substance table")
     assert r.stderr.splitlines()[-1] in ("status 0", "status 141"), r.stderr  # 0 if all was written before head left
     assert len(r.stderr.splitlines()) == 1, r.stderr
+
+
+def _run_in(cwd: object, *args: str) -> subprocess.CompletedProcess[str]:
+    return subprocess.run([sys.executable, "-m", "dossier", *args], capture_output=True, text=True, timeout=120, cwd=cwd)
+
+
+NEEDS_BUILD = "serve needs a dossier folder built by `dossier build`"
+
+
+def test_serve_names_what_it_needs(tmp_path) -> None:  # noqa: ANN001
+    (tmp_path / "file.yaml").write_text("format: ph-dossier-method/1\n", encoding="utf-8")
+    (tmp_path / "notes.txt").write_text("x\n", encoding="utf-8")
+    (tmp_path / "empty").mkdir()
+    cases = {
+        "file.yaml": f"dossier serve: file.yaml is a file, not a dossier folder: {NEEDS_BUILD} "
+                     "(e.g. dossier build file.yaml -o output, then dossier serve output)",
+        "notes.txt": f"dossier serve: notes.txt is a file, not a dossier folder: {NEEDS_BUILD} "
+                     "(e.g. dossier build methods -o output, then dossier serve output)",
+        "empty": f"dossier serve: empty holds no built dossier (no index.html): {NEEDS_BUILD} "
+                 "(e.g. dossier build methods -o output, then dossier serve output)",
+        "missing": f"dossier serve: no such folder missing: {NEEDS_BUILD} (e.g. dossier build methods -o missing)",
+    }
+    for target, message in cases.items():
+        r = _run_in(tmp_path, "serve", target, "--port", "0")
+        assert (r.returncode, r.stderr.strip(), r.stdout) == (1, message, ""), target
+        assert "build -o file.yaml" not in r.stderr
+
+
+def test_verify_of_a_folder_that_is_no_dossier(tmp_path) -> None:  # noqa: ANN001
+    (tmp_path / "some.txt").write_text("x\n", encoding="utf-8")
+    r = _run_in(tmp_path, "verify", str(tmp_path))
+    assert (r.returncode, r.stderr.strip(), r.stdout) == (1, f"dossier verify: not a dossier: no manifest.json in {tmp_path}", "")
+    r = _run_in(tmp_path, "verify", "nowhere")
+    assert (r.returncode, r.stderr.strip()) == (1, "dossier verify: not a dossier: no folder nowhere")
+    (tmp_path / "manifest.json").write_text("{not json", encoding="utf-8")  # a damaged dossier is a mismatch, not "no dossier"
+    r = _run_in(tmp_path, "verify", ".")
+    assert r.returncode == 1
+    assert r.stdout.splitlines()[0].startswith("manifest.json: cannot read the manifest:")
+    assert r.stdout.splitlines()[-1] == ".: 1 mismatch(es)"

@@ -20,10 +20,14 @@ from pathlib import Path
 from .. import __version__
 from .manifest import MANIFEST_FORMAT, MANIFEST_NAME, sha256_file
 
-__all__ = ["Mismatch", "VerifyReport", "verify", "REL_TOL", "ABS_TOL"]
+__all__ = ["Mismatch", "VerifyReport", "NotADossierError", "verify", "REL_TOL", "ABS_TOL"]
 
 REL_TOL = 1e-9
 ABS_TOL = 1e-12
+
+
+class NotADossierError(ValueError):
+    """The folder is not a built dossier at all (no manifest): nothing to verify."""
 
 
 @dataclass(frozen=True)
@@ -70,6 +74,13 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
         Method files (or folders) whose hashes must match the manifest.
     progress : callable, optional
         Called with a label before each method is re-computed.
+
+    Raises
+    ------
+    NotADossierError
+        ``output`` is not a folder, or holds no manifest.json: it was never a
+        dossier, so there is nothing to compare (a manifest that cannot be read
+        is a mismatch instead: the dossier was damaged).
     """
     from ..analysis.ledger import ledger_entries, settings_from_dict
     from ..analysis.method import analyse_method
@@ -79,6 +90,10 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     mm: list[Mismatch] = []
     notes: list[str] = []
     manifest_path = out / MANIFEST_NAME
+    if not out.is_dir():
+        raise NotADossierError(f"not a dossier: no folder {out}")
+    if not manifest_path.exists():
+        raise NotADossierError(f"not a dossier: no {MANIFEST_NAME} in {out}")
     try:
         manifest = json.loads(manifest_path.read_text(encoding="utf-8"))
     except (OSError, ValueError) as exc:
