@@ -365,8 +365,9 @@ def _run_build(args: argparse.Namespace) -> int:
     if outcome.problems:
         print(format_problems(list(outcome.problems)), file=sys.stderr)
     if args.timings:
-        for stage, seconds in outcome.timings.items():
-            print(f"  {stage:<40} {seconds:7.2f} s")
+        from .render.terminal import timing_lines
+
+        print("\n".join(timing_lines(outcome.timings)))
     if not outcome.ok:
         raise InputFailure("nothing built: fix the errors above (the previous dossier is unchanged)")
     index = outcome.output.resolve() / "index.html"

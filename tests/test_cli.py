@@ -143,3 +143,16 @@ def test_verify_of_a_folder_that_is_no_dossier(tmp_path) -> None:  # noqa: ANN00
     assert r.returncode == 1
     assert r.stdout.splitlines()[0].startswith("manifest.json: cannot read the manifest:")
     assert r.stdout.splitlines()[-1] == ".: 1 mismatch(es)"
+
+
+def test_timing_columns_line_up_whatever_the_stage_names() -> None:
+    from dossier.render.terminal import timing_lines
+
+    stages = {"check inputs": 0.04, "analyse, plot and render methods (pages and PDFs)": 1234.5, "bind the dossier PDF": 3.0, "publish": 0.2}
+    lines = timing_lines(stages)
+    assert [line.split()[0] for line in lines] == ["check", "analyse,", "bind", "publish"]
+    assert len({len(line) for line in lines}) == 1, lines  # seconds right-aligned: every line ends in the same column
+    assert len({line.rindex(".") for line in lines}) == 1, lines  # decimal points one above the other
+    name_end = max(len(name) for name in stages) + 2
+    assert all(line[name_end] == " " and line[:name_end].rstrip() == "  " + name for line, name in zip(lines, stages))
+    assert lines[1].endswith("1234.50 s") and lines[0].endswith("   0.04 s")
