@@ -5,7 +5,10 @@ exit code. It imports nothing else of the package but the terminal printer
 and the problem list.
 
 Exit codes: 0 success; 1 bad input (a method file, a value); 2 usage error
-(unknown option, missing argument); 3 internal error (a bug: please report).
+(unknown option, missing argument); 3 internal error (a bug: please report);
+130 interrupted (Ctrl-C, SIGTERM); 141 the reader of the output went away
+(``dossier diff A B | head``): the command stops quietly with the status a
+shell reports for a program ended by SIGPIPE (128 + 13).
 """
 
 from __future__ import annotations
@@ -17,12 +20,14 @@ from collections.abc import Callable, Sequence
 
 from . import __version__
 
-__all__ = ["main", "EXIT_OK", "EXIT_INPUT", "EXIT_USAGE", "EXIT_INTERNAL"]
+__all__ = ["main", "EXIT_OK", "EXIT_INPUT", "EXIT_USAGE", "EXIT_INTERNAL", "EXIT_CLOSED_PIPE"]
 
 EXIT_OK = 0
 EXIT_INPUT = 1
 EXIT_USAGE = 2
 EXIT_INTERNAL = 3
+EXIT_CLOSED_PIPE = 141
+"""128 + SIGPIPE (13): what a shell reports for a tool whose reader closed the pipe."""
 
 
 class InputFailure(Exception):
@@ -34,10 +39,19 @@ class InputFailure(Exception):
 
 
 def _console():  # noqa: ANN202 - rich.console.Console, imported lazily
-    """A rich console; wide and without colour when the output is not a terminal."""
+    """A rich console; wide and without colour when the output is not a terminal.
+
+    A closed output pipe raises BrokenPipeError (handled once, in :func:`main`)
+    instead of rich's own exit with status 1.
+    """
     from rich.console import Console
 
-    return Console() if sys.stdout.isatty() else Console(width=150, no_color=True, highlight=False)
+    class _PipeAwareConsole(Console):
+        def on_broken_pipe(self) -> None:
+            self.quiet = True
+            raise BrokenPipeError
+
+    return _PipeAwareConsole() if sys.stdout.isatty() else _PipeAwareConsole(width=150, no_color=True, highlight=False)
 
 
 # ---------------------------------------------------------------- solve
@@ -256,9 +270,9 @@ def _run_build(args: argparse.Namespace) -> int:
         outcome = build(args.paths, args.output, options, reporter=rep)
     _print_problems(outcome.problems)
     if args.timings:
-        width = max(len(stage) for stage in outcome.timings)
-        for stage, seconds in outcome.timings.items():
-            print(f"  {stage:<{width}}  {seconds:8.2f} s")
+        from .render.terminal import timing_lines
+
+        print("\n".join(timing_lines(outcome.timings)))
     if not outcome.ok:
         raise InputFailure("nothing built: fix the errors above (the previous dossier is unchanged)")
     index = outcome.output.resolve() / "index.html"
@@ -480,6 +494,21 @@ def _terminate_as_interrupt() -> None:
     signal.signal(signal.SIGTERM, handler)
 
 
+def _closed_pipe() -> int:
+    """The reader of standard output went away: stop quietly.
+
+    Standard output is pointed at the null device so that Python's final flush
+    of the unwritable buffer raises nothing at exit.
+    """
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError):  # stdout without a file descriptor (embedded use)
+        pass
+    return EXIT_CLOSED_PIPE
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code (also used by ``python -m dossier``)."""
     parser = build_parser()
@@ -491,7 +520,11 @@ def main(argv: Sequence[str] | None = None) -> int:
     from .problems import UserError
 
     try:
-        return int(args.run(args))
+        code = int(args.run(args))
+        sys.stdout.flush()  # a closed pipe shows here, not at interpreter exit
+        return code
+    except BrokenPipeError:
+        return _closed_pipe()
     except InputFailure as exc:
         if str(exc):
             print(f"dossier {args.command}: {exc}", file=sys.stderr)

@@ -1,18 +1,23 @@
 """Shared test helpers.
 
 Real components (a browser, pdftoppm) are used where users meet them. A test
-that needs one is skipped with a reason on a machine without it — but when
-``CI=true`` a missing component fails the run instead, so CI cannot go green
-by skipping.
+that needs one is skipped with a reason on a machine without it. Under
+``CI=true`` such a skip fails the run instead (:func:`pytest_runtest_makereport`),
+so CI cannot go green by skipping: a skip raised by :func:`require_executable`,
+or any skip of a test marked ``browser`` or ``pdf_pages``, is reported as a
+failure with its reason.
 """
 
 from __future__ import annotations
 
 import os
 import shutil
+from collections.abc import Iterator
 
 import pytest
 from hypothesis import HealthCheck, settings
+
+pytest_plugins = ["pytester"]  # tests/test_conftest.py runs small pytest sessions
 
 settings.register_profile(
     "dossier",
@@ -22,6 +27,13 @@ settings.register_profile(
 )
 settings.load_profile("dossier")
 
+COMPONENT_MARKERS = ("browser", "pdf_pages")
+"""Markers of tests that need a system component; their skips fail under CI=true."""
+
+
+class MissingComponent(pytest.skip.Exception):
+    """The skip of a test whose system component (an executable) is missing."""
+
 
 def in_ci() -> bool:
     """Whether the tests run under CI (CI=true)."""
@@ -29,11 +41,29 @@ def in_ci() -> bool:
 
 
 def require_executable(name: str, why: str) -> str:
-    """Path of an executable the test needs; skip (or, in CI, fail) without it."""
+    """Path of an executable the test needs; skip without it (a failure under CI=true)."""
     path = shutil.which(name)
     if path:
         return path
-    message = f"{name} is not installed ({why}); .ci/run installs it"
-    if in_ci():
-        pytest.fail(message)
-    pytest.skip(message)
+    raise MissingComponent(f"{name} is not installed ({why}); `make test` installs it (tools/system-packages test)")
+
+
+def _needs_component(item: pytest.Item, call: pytest.CallInfo[None]) -> bool:
+    if call.excinfo is not None and isinstance(call.excinfo.value, MissingComponent):
+        return True
+    return any(item.get_closest_marker(m) is not None for m in COMPONENT_MARKERS)
+
+
+@pytest.hookimpl(hookwrapper=True)
+def pytest_runtest_makereport(item: pytest.Item, call: pytest.CallInfo[None]) -> Iterator[None]:
+    """Under CI=true, a skipped test that needs a browser or pdftoppm fails the run."""
+    outcome = yield
+    report = outcome.get_result()
+    if not (report.skipped and in_ci() and _needs_component(item, call)):
+        return
+    if hasattr(report, "wasxfail"):
+        return
+    skip = call.excinfo.value if call.excinfo is not None else None
+    reason = skip.msg if isinstance(skip, pytest.skip.Exception) else str(report.longrepr)
+    report.outcome = "failed"
+    report.longrepr = f"skipped under CI=true, which needs every browser and PDF-page test to run: {reason}"

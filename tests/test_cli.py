@@ -79,3 +79,80 @@ def test_usage_error_exits_2() -> None:
 def test_version() -> None:
     r = run("--version")
     assert r.returncode == 0 and r.stdout.startswith("ph-dossier ")
+
+
+def _with_reader_gone(*args: str) -> tuple[int, str]:
+    """Run the command with its standard output a pipe whose reader has closed it
+    (as ``| head`` does once it has its lines); exit code and standard error."""
+    proc = subprocess.Popen([sys.executable, "-m", "dossier", *args], stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    proc.stdout.close()  # the only reader: every write of the child now fails with EPIPE
+    err = proc.stderr.read()
+    proc.stderr.close()
+    return proc.wait(timeout=120), err
+
+
+@pytest.mark.parametrize("args", [("substances",), ("schema",), ("solve", "--pka", "4.756", "--conc", "10 mmol/L", "--json"),
+                                  ("solve", "--pka", "4.756", "--conc", "10 mmol/L")])
+def test_a_closed_output_pipe_ends_the_command_quietly(args: tuple[str, ...]) -> None:
+    code, err = _with_reader_gone(*args)
+    assert (code, err) == (141, "")  # 128 + SIGPIPE, as a shell reports for tools ended by a closed pipe
+
+
+def test_piped_into_head_through_a_shell() -> None:
+    command = f"'{sys.executable}' -m dossier substances | head -n 1; echo \"status ${{PIPESTATUS[0]}}\" >&2"
+    r = subprocess.run(["bash", "-c", command], capture_output=True, text=True, timeout=120)
+    assert r.stdout.startswith("Substance table")
+    assert r.stderr.splitlines()[-1] in ("status 0", "status 141"), r.stderr  # 0 if all was written before head left
+    assert len(r.stderr.splitlines()) == 1, r.stderr
+
+
+def _run_in(cwd: object, *args: str) -> subprocess.CompletedProcess[str]:
+    return subprocess.run([sys.executable, "-m", "dossier", *args], capture_output=True, text=True, timeout=120, cwd=cwd)
+
+
+NEEDS_BUILD = "serve needs a dossier folder built by `dossier build`"
+
+
+def test_serve_names_what_it_needs(tmp_path) -> None:  # noqa: ANN001
+    (tmp_path / "file.yaml").write_text("format: ph-dossier-method/1\n", encoding="utf-8")
+    (tmp_path / "notes.txt").write_text("x\n", encoding="utf-8")
+    (tmp_path / "empty").mkdir()
+    cases = {
+        "file.yaml": f"dossier serve: file.yaml is a file, not a dossier folder: {NEEDS_BUILD} "
+                     "(e.g. dossier build file.yaml -o output, then dossier serve output)",
+        "notes.txt": f"dossier serve: notes.txt is a file, not a dossier folder: {NEEDS_BUILD} "
+                     "(e.g. dossier build methods -o output, then dossier serve output)",
+        "empty": f"dossier serve: empty holds no built dossier (no index.html): {NEEDS_BUILD} "
+                 "(e.g. dossier build methods -o output, then dossier serve output)",
+        "missing": f"dossier serve: no such folder missing: {NEEDS_BUILD} (e.g. dossier build methods -o missing)",
+    }
+    for target, message in cases.items():
+        r = _run_in(tmp_path, "serve", target, "--port", "0")
+        assert (r.returncode, r.stderr.strip(), r.stdout) == (1, message, ""), target
+        assert "build -o file.yaml" not in r.stderr
+
+
+def test_verify_of_a_folder_that_is_no_dossier(tmp_path) -> None:  # noqa: ANN001
+    (tmp_path / "some.txt").write_text("x\n", encoding="utf-8")
+    r = _run_in(tmp_path, "verify", str(tmp_path))
+    assert (r.returncode, r.stderr.strip(), r.stdout) == (1, f"dossier verify: not a dossier: no manifest.json in {tmp_path}", "")
+    r = _run_in(tmp_path, "verify", "nowhere")
+    assert (r.returncode, r.stderr.strip()) == (1, "dossier verify: not a dossier: no folder nowhere")
+    (tmp_path / "manifest.json").write_text("{not json", encoding="utf-8")  # a damaged dossier is a mismatch, not "no dossier"
+    r = _run_in(tmp_path, "verify", ".")
+    assert r.returncode == 1
+    assert r.stdout.splitlines()[0].startswith("manifest.json: cannot read the manifest:")
+    assert r.stdout.splitlines()[-1] == ".: 1 mismatch(es)"
+
+
+def test_timing_columns_line_up_whatever_the_stage_names() -> None:
+    from dossier.render.terminal import timing_lines
+
+    stages = {"check inputs": 0.04, "analyse, plot and render methods (pages and PDFs)": 1234.5, "bind the dossier PDF": 3.0, "publish": 0.2}
+    lines = timing_lines(stages)
+    assert [line.split()[0] for line in lines] == ["check", "analyse,", "bind", "publish"]
+    assert len({len(line) for line in lines}) == 1, lines  # seconds right-aligned: every line ends in the same column
+    assert len({line.rindex(".") for line in lines}) == 1, lines  # decimal points one above the other
+    name_end = max(len(name) for name in stages) + 2
+    assert all(line[name_end] == " " and line[:name_end].rstrip() == "  " + name for line, name in zip(lines, stages))
+    assert lines[1].endswith("1234.50 s") and lines[0].endswith("   0.04 s")

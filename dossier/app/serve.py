@@ -17,6 +17,19 @@ class _Quiet(SimpleHTTPRequestHandler):
         pass
 
 
+def _not_a_built_dossier(folder: Path) -> str:
+    """Why ``folder`` cannot be served ('' when it holds a built dossier)."""
+    needs = "serve needs a dossier folder built by `dossier build`"
+    if folder.is_file():
+        example = f"dossier build {folder} -o output, then dossier serve output" if folder.suffix in (".yaml", ".yml") else "dossier build methods -o output, then dossier serve output"
+        return f"{folder} is a file, not a dossier folder: {needs} (e.g. {example})"
+    if not folder.is_dir():
+        return f"no such folder {folder}: {needs} (e.g. dossier build methods -o {folder})"
+    if not (folder / LAYOUT.index).is_file():
+        return f"{folder} holds no built dossier (no {LAYOUT.index}): {needs} (e.g. dossier build methods -o output, then dossier serve output)"
+    return ""
+
+
 def preview_server(folder: str | Path, port: int) -> ThreadingHTTPServer:
     """A server for ``folder`` on 127.0.0.1:``port`` (0: any free port); the caller runs and closes it.
 
@@ -26,8 +39,9 @@ def preview_server(folder: str | Path, port: int) -> ThreadingHTTPServer:
         When the folder holds no built dossier or the port cannot be used.
     """
     root = Path(folder)
-    if not (root / LAYOUT.index).is_file():
-        raise UserError(f"{root} holds no built dossier (no {LAYOUT.index}); run: dossier build -o {root}")
+    problem = _not_a_built_dossier(root)
+    if problem:
+        raise UserError(problem)
     handler = functools.partial(_Quiet, directory=str(root))
     try:
         return ThreadingHTTPServer(("127.0.0.1", port), handler)

@@ -82,7 +82,7 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     """
     out = Path(output)
     if not out.is_dir():
-        raise NotADossier(f"not a dossier: {out} is not a folder")
+        raise NotADossier(f"not a dossier: no folder {out}")
     if not (out / LAYOUT.manifest).exists():
         raise NotADossier(f"not a dossier: no {LAYOUT.manifest} in {out}")
     try:

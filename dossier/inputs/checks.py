@@ -340,16 +340,27 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
 
 
 def _check_solutions(ctx: _Ctx, indexed: list[tuple[int, SolutionIn]], refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> list[SolutionSpec | None]:
-    seen: dict[str, int] = {}
+    seen: dict[str, int] = {}  # id folded to lower case → index of its first use
     out = []
     for i, sol in indexed:
         checked = _solution(ctx, ("solutions", i), sol, refs, conditions, cited)
-        if sol.id in seen:
-            ctx.add(("solutions", i, "id"), f"solution id {sol.id!r} is used twice in this method (also solutions[{seen[sol.id]}])")
+        first = seen.get(sol.id.casefold())
+        if first is not None:
+            other = next(s.id for j, s in indexed if j == first)
+            ctx.add(("solutions", i, "id"), _duplicate_solution_message(sol.id, other, first))
             checked = None
-        seen.setdefault(sol.id, i)
+        seen.setdefault(sol.id.casefold(), i)
         out.append(checked)
     return out
+
+
+def _duplicate_solution_message(sid: str, other: str, first: int) -> str:
+    if sid == other:
+        return f"solution id {sid!r} is used twice in this method (also solutions[{first}])"
+    return (
+        f"solution id {sid!r} differs only in case from {other!r} (solutions[{first}]); a case-insensitive file system "
+        "would give their figure files one name: ids must differ by more than case"
+    )
 
 
 def check_valid_parts(path: str, data: dict, doc: LoadedYaml, table: SubstanceTable) -> list[Problem]:

@@ -196,6 +196,8 @@ def _message(err: dict[str, Any]) -> str:
         return f"must be {ID_RULE}; got {_show(value)}"
     if kind in ("string_type",):
         if _is_concentration(loc) and isinstance(value, (int, float)) and not isinstance(value, bool):
+            if loc[-1] == "tolerance":
+                return f"needs a unit: write e.g. '{value} %' (of the concentration) or '{value} mmol/L' (allowed: %, {ALLOWED_UNITS})"
             return f"needs a unit: write e.g. '{value} mmol/L' (allowed: {ALLOWED_UNITS})"
         return f"must be text; got {_show(value)}"
     if kind == "string_too_short":
@@ -333,22 +335,33 @@ def load_paths(paths: list[str | Path], *, strict: bool = False, table: Substanc
     table = table or load_table()
     files, problems = find_method_files(paths)
     loads = [load_method(f, table=table) for f in files]
-    seen: dict[str, str] = {}
+    seen: dict[str, tuple[str, str]] = {}  # id folded to lower case → (id as written, file)
     for ld in loads:
         problems.extend(ld.problems)
         if ld.method is None:
             continue
-        if ld.method.id in seen:
+        mid = ld.method.id
+        if mid.casefold() in seen:
+            first_id, first_path = seen[mid.casefold()]
             pos = _id_position(ld)
-            problems.append(Problem(ld.path, pos[0], pos[1], "method.id", f"method id {ld.method.id!r} is also used by {seen[ld.method.id]}; ids must be unique in a dossier"))
+            problems.append(Problem(ld.path, pos[0], pos[1], "method.id", _duplicate_id_message(mid, first_id, first_path)))
         else:
-            seen[ld.method.id] = ld.path
+            seen[mid.casefold()] = (mid, ld.path)
     if strict:
         problems = [p.as_error() for p in problems]
     if has_errors(problems):
         bad = {p.file for p in problems if p.severity is Severity.ERROR}
         loads = [MethodLoad(ld.path, None if ld.path in bad else ld.method, ld.problems) for ld in loads]
     return DossierInputs(tuple(loads), tuple(problems))
+
+
+def _duplicate_id_message(mid: str, first_id: str, first_path: str) -> str:
+    if mid == first_id:
+        return f"method id {mid!r} is also used by {first_path}; ids must be unique in a dossier"
+    return (
+        f"method id {mid!r} differs only in case from {first_id!r} in {first_path}; a case-insensitive file system "
+        "would give both reports one folder: ids must differ by more than case"
+    )
 
 
 def _id_position(ld: MethodLoad) -> tuple[int, int]:

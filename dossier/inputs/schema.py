@@ -10,10 +10,11 @@ from __future__ import annotations
 
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, field_validator
+from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, WithJsonSchema, field_validator
 
 from .forms import parse_form
 from .substances import SOURCE_KINDS
+from .units import TEMPERATURE_PATTERN, celsius, celsius_difference
 
 __all__ = [
     "FORMAT",
@@ -30,8 +31,11 @@ __all__ = [
 ]
 
 FORMAT = "ph-dossier-method/1"
-ID_PATTERN = r"^[a-z0-9][a-z0-9._-]{0,62}$"
-ID_RULE = "lower-case letters, digits, '-', '_' or '.', starting with a letter or digit, at most 63 characters"
+ID_PATTERN = r"^[A-Za-z0-9][A-Za-z0-9._-]{0,62}$"
+ID_RULE = "letters (a-z, A-Z), digits, '-', '_' or '.', starting with a letter or digit, at most 63 characters"
+"""Ids become folder and file names. Upper case is allowed (``QC-M-0042``); two
+ids of one dossier that differ only in case are refused by the checks, since a
+case-insensitive file system would give them one folder."""
 
 ActivityId = Literal["ideal", "debye-huckel", "extended-debye-huckel", "davies"]
 SourceKind = Literal[SOURCE_KINDS]  # type: ignore[valid-type]
@@ -44,6 +48,18 @@ def _unit(unit: str) -> dict[str, Any]:
 class _Model(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True, strict=True)
 
+
+def _temperature_schema(low: float, high: float) -> WithJsonSchema:
+    """A number of °C in [low, high], or text with its unit ('20 °C', '293.15 K')."""
+    return WithJsonSchema({
+        "anyOf": [{"type": "number", "minimum": low, "maximum": high}, {"type": "string", "pattern": TEMPERATURE_PATTERN}],
+    })
+
+
+Celsius = Annotated[float, BeforeValidator(celsius), _temperature_schema(0.0, 100.0)]
+"""A temperature [°C]: a plain number is °C; text may carry °C or K."""
+CelsiusDifference = Annotated[float, BeforeValidator(celsius_difference), _temperature_schema(0.0, 20.0)]
+"""A temperature difference [°C = K]: a plain number, or text with °C or K."""
 
 Text = Annotated[str, Field(min_length=1, max_length=10_000)]
 ShortText = Annotated[str, Field(min_length=1, max_length=300)]
@@ -92,10 +108,13 @@ class Acceptance(_Model):
 class Conditions(_Model):
     """Conditions of use, common to every solution of the method."""
 
-    temperature: float = Field(25.0, ge=0.0, le=100.0, allow_inf_nan=False, json_schema_extra=_unit("°C"), description="Working temperature.")
-    temperature_tolerance: float = Field(
+    temperature: Celsius = Field(
+        25.0, ge=0.0, le=100.0, allow_inf_nan=False, json_schema_extra=_unit("°C"),
+        description="Working temperature: a number of °C, or text with its unit ('20 °C', '293.15 K').",
+    )
+    temperature_tolerance: CelsiusDifference = Field(
         0.0, ge=0.0, le=20.0, allow_inf_nan=False, json_schema_extra=_unit("°C"),
-        description="Half-width of the allowed temperature range (± value), treated as a rectangular distribution.",
+        description="Half-width of the allowed temperature range (± value; a number of °C, or '2 °C', '2 K'), treated as a rectangular distribution.",
     )
     activity_model: ActivityId = Field(
         "davies",
@@ -125,7 +144,10 @@ class PkaIn(_Model):
     distribution: Literal["normal", "rectangular"] = Field(
         "normal", description="Distribution of the pKa for the Monte-Carlo propagation; for rectangular, the half-width is √3 × uncertainty.",
     )
-    temperature: float = Field(25.0, ge=0.0, le=100.0, allow_inf_nan=False, json_schema_extra=_unit("°C"), description="Temperature at which the stated value holds.")
+    temperature: Celsius = Field(
+        25.0, ge=0.0, le=100.0, allow_inf_nan=False, json_schema_extra=_unit("°C"),
+        description="Temperature at which the stated value holds: a number of °C, or text with its unit ('37 °C', '310.15 K').",
+    )
     ionic_strength: float = Field(
         0.0, ge=0.0, le=5.0, allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
         description="Ionic strength at which the stated value holds (0: thermodynamic). Otherwise the value is converted to I = 0 with the method's activity model, by its convention.",

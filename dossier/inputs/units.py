@@ -22,7 +22,8 @@ from functools import lru_cache
 
 from ..chemistry.water import water_density
 
-__all__ = ["UnitError", "Concentration", "parse_concentration", "format_concentration", "ALLOWED_UNITS"]
+__all__ = ["UnitError", "Concentration", "parse_concentration", "format_concentration", "ALLOWED_UNITS",
+           "celsius", "celsius_difference", "TEMPERATURE_PATTERN"]
 
 ALLOWED_UNITS = "mol/L, mmol/L, µmol/L (or umol/L), mol/kg, mg/L or g/L (with a molar mass), % w/v (with a molar mass)"
 
@@ -142,3 +143,58 @@ def format_concentration(c: float) -> str:
         if c >= factor * 0.9995:
             return f"{c / factor:.3g} {unit}"
     return f"{c:.3g} mol/L"
+
+
+TEMPERATURE_PATTERN = r"^\s*([-+]?[0-9]+(?:\.[0-9]*)?(?:[eE][-+]?[0-9]+)?)\s*(°C|℃|K)\s*$"
+"""A temperature written with its unit: a number, then °C (or ℃) or K."""
+
+_TEMPERATURE = re.compile(TEMPERATURE_PATTERN)
+KELVIN_AT_ZERO_CELSIUS = 273.15
+"""0 °C in kelvin (exact, by the definition of the Celsius scale)."""
+
+
+def _temperature_parts(value: object, what: str) -> tuple[float, str] | object:
+    if isinstance(value, bool) or not isinstance(value, str):
+        return value  # numbers are °C; other types are refused by the schema's type check
+    m = _TEMPERATURE.match(value)
+    if not m:
+        raise ValueError(f"must be {what} in °C (a number, or e.g. '25 °C') or in kelvin (e.g. '298.15 K'); got {value!r}")
+    return float(m.group(1)), m.group(2)
+
+
+def celsius(value: object) -> object:
+    r"""A temperature as written in a method file, in °C.
+
+    A plain number is °C; text is a number with ``°C`` (or ``℃``) or ``K``:
+
+    .. math:: t\,[°C] = T\,[K] - 273.15
+
+    Anything else is returned unchanged, for the type check to refuse.
+
+    Raises
+    ------
+    ValueError
+        Text that is not a number with one of those units (the message says so).
+
+    Examples
+    --------
+    >>> celsius(20), celsius("20 °C"), celsius("310.15 K")
+    (20, 20.0, 37.0)
+    """
+    parts = _temperature_parts(value, "a temperature")
+    if not isinstance(parts, tuple):
+        return parts
+    number, unit = parts
+    return _tidy(number - KELVIN_AT_ZERO_CELSIUS) if unit == "K" else number
+
+
+def celsius_difference(value: object) -> object:
+    """A temperature difference (a tolerance) in °C; 1 K and 1 °C are the same step.
+
+    Examples
+    --------
+    >>> celsius_difference("2 K"), celsius_difference("0.5 °C"), celsius_difference(2)
+    (2.0, 0.5, 2)
+    """
+    parts = _temperature_parts(value, "a temperature difference")
+    return parts[0] if isinstance(parts, tuple) else parts

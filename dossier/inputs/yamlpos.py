@@ -15,7 +15,7 @@ from typing import Any
 
 import yaml
 
-__all__ = ["Position", "LoadedYaml", "YamlError", "load_yaml", "MAX_BYTES", "MAX_NODES", "MAX_DEPTH"]
+__all__ = ["Position", "LoadedYaml", "YamlError", "load_yaml", "syntax_message", "MAX_BYTES", "MAX_NODES", "MAX_DEPTH"]
 
 MAX_BYTES = 1024 * 1024
 """Largest method file read [bytes] (1 MiB)."""
@@ -119,6 +119,50 @@ def _scalar(node: yaml.ScalarNode) -> Any:
     return value
 
 
+def syntax_message(exc: yaml.MarkedYAMLError) -> str:
+    """The parser's complaint in plain words, for the mistakes people make by hand.
+
+    Tabs, a key indented unlike its neighbours, a list item among the keys of
+    a mapping and a stray ``:`` each get a sentence that says what is likely
+    wrong; any other complaint is passed on as the parser words it. The
+    position (line and column of ``exc.problem_mark``) is reported beside it.
+
+    Examples
+    --------
+    >>> try:
+    ...     load_yaml("a:\\n\\tb: 1\\n")
+    ... except YamlError as e:
+    ...     print(e.position, e)
+    Position(line=2, column=1) YAML syntax: a tab character; YAML indents with spaces, never tabs: replace it with spaces
+    """
+    problem = exc.problem or exc.context or "invalid YAML"
+    context, where = exc.context or "", exc.context_mark
+    found_column = exc.problem_mark.column + 1 if exc.problem_mark else 0
+    if "expected a single document" in str(exc):
+        return "YAML syntax: holds more than one YAML document; one method per file"
+    if problem.startswith("found character '\\t'"):
+        return "YAML syntax: a tab character; YAML indents with spaces, never tabs: replace it with spaces"
+    if problem.startswith("expected <block end>") and where is not None:
+        opened = f"line {where.line + 1}"
+        if "block mapping" in context and problem.endswith("'-'"):
+            return (f"YAML indentation: a list item ('-') among the keys of the mapping from {opened} (keys at column "
+                    f"{where.column + 1}); a list goes under a key of its own, indented below it")
+        if "block mapping" in context:
+            return (f"YAML indentation: this line is indented to column {found_column}, where no mapping above it has its keys "
+                    f"(the enclosing one, from {opened}, has them at column {where.column + 1}); indent each key exactly "
+                    "like the other keys of its mapping")
+        if "block collection" in context and found_column == where.column + 1:
+            return (f"YAML indentation: this line is in the column of the '-' of the list from {opened} but is not an item; "
+                    "a key of an item is indented past its '-', like the item's first key")
+        if "block collection" in context:
+            return (f"YAML indentation: this line is indented to column {found_column}, but the items of the list from {opened} "
+                    f"start at column {where.column + 1}; start each '-' of one list in the same column")
+    if problem == "mapping values are not allowed here":
+        return ("YAML syntax: a ':' where no key can start; likely this line is indented more than the key above it, "
+                "or the line above lacks its ':', or a value holding ': ' needs quotes")
+    return f"YAML syntax: {problem}"
+
+
 def load_yaml(text: str | bytes) -> LoadedYaml:
     """Parse one YAML document, keeping positions.
 
@@ -165,10 +209,7 @@ def load_yaml(text: str | bytes) -> LoadedYaml:
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         pos = Position(mark.line + 1, mark.column + 1) if mark else Position(1, 1)
-        problem = exc.problem or exc.context or "invalid YAML"
-        if "expected a single document" in str(exc):
-            problem = "holds more than one YAML document; one method per file"
-        raise YamlError(f"YAML syntax: {problem}", pos) from None
+        raise YamlError(syntax_message(exc), pos) from None
     except yaml.YAMLError as exc:
         raise YamlError(f"YAML syntax: {exc}", Position(1, 1)) from None
     except RecursionError:

@@ -13,7 +13,7 @@ from ..analysis.pointwise import PointResult
 from ..inputs.model import Method
 from ..inputs.substances import SubstanceTable
 
-__all__ = ["point_table", "point_as_dict", "method_points_as_dict", "print_json", "substances_tables", "substances_as_dict"]
+__all__ = ["timing_lines", "point_table", "point_as_dict", "method_points_as_dict", "print_json", "substances_tables", "substances_as_dict"]
 
 
 def _signed(x: float, digits: int = 4) -> str:
@@ -53,6 +53,22 @@ def method_points_as_dict(method: Method, results: tuple[tuple[str, PointResult]
         "method": {"id": method.id, "revision": method.revision, "source_sha256": method.source_sha256},
         "solutions": [{"id": sid, **point_as_dict(r)} for sid, r in results],
     }
+
+
+def timing_lines(timings: dict[str, float]) -> list[str]:
+    """``dossier build --timings``: one line per stage, names in one column, seconds right-aligned.
+
+    The name column is as wide as the longest stage name, so the seconds line
+    up whatever the stages are called.
+
+    Examples
+    --------
+    >>> print("\\n".join(timing_lines({"check inputs": 0.5, "analyse methods": 12.25})))
+      check inputs        0.50 s
+      analyse methods    12.25 s
+    """
+    width = max((len(name) for name in timings), default=0)
+    return [f"  {name:<{width}} {seconds:>8.2f} s" for name, seconds in timings.items()]
 
 
 def print_json(data: Any, console: Console | None = None) -> None:

@@ -15,6 +15,8 @@ import pytest
 from ..conftest import require_executable
 from .conftest import ROOT
 
+pytestmark = pytest.mark.browser
+
 ARTIFACTS = ROOT / "tests" / "artifacts"
 CHROMIUM_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
                  "--disable-component-update", "--disable-sync"]

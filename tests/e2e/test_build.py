@@ -71,6 +71,20 @@ def test_progress_lines_quiet_and_timings(tmp_path: Path) -> None:
     assert r.returncode == 0, r.stderr
     assert "analysing and rendering methods: benzoate-extract (1/1)" in r.stderr  # plain lines when not a terminal
     assert "check inputs" in r.stdout and "publish" in r.stdout
+    timings = [line for line in r.stdout.splitlines() if line.endswith(" s") and line.startswith("  ")]
+    assert len(timings) >= 3  # check inputs, analyse …, publish
+    assert len({len(line) for line in timings}) == 1, timings  # one width: the seconds end in one column
+    assert len({line.index(".", len(line) - 8) for line in timings}) == 1, timings  # decimal points aligned
     q = run("build", str(methods), "-o", str(tmp_path / "o"), "--draws", "1000", "--no-pdf", "--quiet")
     assert q.returncode == 0 and q.stderr == ""
     assert q.stdout.startswith("built ")
+
+
+def test_diff_into_a_closed_pipe_stops_quietly(built: Path) -> None:
+    """`dossier diff A B | head`: the reader leaves, the command ends with 141 and no message."""
+    proc = subprocess.Popen([sys.executable, "-m", "dossier", "diff", str(built), str(built)], cwd=ROOT,
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    proc.stdout.close()  # the only reader is gone before the first line is written
+    err = proc.stderr.read()
+    proc.stderr.close()
+    assert (proc.wait(timeout=300), err) == (141, "")

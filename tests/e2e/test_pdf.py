@@ -97,6 +97,7 @@ def _pgm_pixels(data: bytes) -> tuple[int, int, bytes]:
     return w, h, data[parts.end():]
 
 
+@pytest.mark.pdf_pages
 def test_every_page_renders_and_none_is_blank(built: Path, tmp_path: Path) -> None:
     pdftoppm = require_executable("pdftoppm", "renders PDF pages")
     pdfs = [built / "dossier.pdf"] + [built / "methods" / mid / f"{mid}.pdf" for mid in method_ids()]

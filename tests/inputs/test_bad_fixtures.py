@@ -78,6 +78,21 @@ def test_duplicate_method_ids_across_a_dossier(tmp_path: Path) -> None:
     )
 
 
+def test_method_ids_that_differ_only_in_case(tmp_path: Path) -> None:
+    """QC-M-0042 and qc-m-0042 would share one report folder on a case-insensitive file system."""
+    text = (ROOT / "methods" / "benzoate-extract.yaml").read_text(encoding="utf-8")
+    (tmp_path / "a.yaml").write_text(text.replace("id: benzoate-extract", "id: QC-M-0042", 1), encoding="utf-8")
+    (tmp_path / "b.yaml").write_text(text.replace("id: benzoate-extract", "id: qc-m-0042", 1), encoding="utf-8")
+    r = run("check", ".", cwd=tmp_path)
+    assert r.returncode == 1
+    assert r.stdout.splitlines()[0] == (
+        "b.yaml:6:7: method.id: method id 'qc-m-0042' differs only in case from 'QC-M-0042' in a.yaml; "
+        "a case-insensitive file system would give both reports one folder: ids must differ by more than case"
+    )
+    (tmp_path / "b.yaml").unlink()
+    assert run("check", "--strict", ".", cwd=tmp_path).returncode == 0  # upper case alone is fine
+
+
 def test_missing_path_is_an_error(tmp_path: Path) -> None:
     r = run("check", "no-such.yaml", cwd=tmp_path)
     assert r.returncode == 1

@@ -112,6 +112,30 @@ def test_pka_stated_at_another_temperature_is_brought_to_25c() -> None:
     assert p.at_working_temperature == pytest.approx(pka_at_temperature(p.thermodynamic, 30.0, dh=47.45), abs=1e-12)
 
 
+@pytest.mark.parametrize(("written", "celsius"), [("20", 20.0), ("20 °C", 20.0), ("20°C", 20.0), ("'20 ℃'", 20.0), ("293.15 K", 20.0), ("310.15 K", 37.0)])
+def test_temperatures_carry_their_unit_or_are_celsius(written: str, celsius: float) -> None:
+    """Concentrations carry units, so temperatures may too: °C and K (T/K = t/°C + 273.15, by definition)."""
+    m, _ = _one(method_text(temperature=written))
+    assert m.conditions.temperature == pytest.approx(celsius, abs=1e-12)
+    m, _ = _one(method_text(temperature="30", pka=f"          - {{value: 7.75, uncertainty: 0.01, temperature: {written}, enthalpy: 47.45, reference: r}}",
+                            substance="tris", form="base", shortcut="weak-base-square-root"))
+    assert m.solutions[0].components[0].pka[0].stated_temperature == pytest.approx(celsius, abs=1e-12)
+
+
+def test_temperature_tolerance_in_kelvin_or_celsius() -> None:
+    for written in ("2", "2 K", "2 °C"):
+        m, _ = _one(method_text().replace("activity_model: davies}", f"activity_model: davies, temperature_tolerance: {written}}}"))
+        assert m.conditions.temperature_tolerance == 2.0
+
+
+def test_temperature_with_unit_validates_against_the_json_schema() -> None:
+    data = yaml.safe_load(method_text(temperature="20 °C"))
+    jsonschema.validate(data, json_schema())
+    data["conditions"]["temperature"] = "77 °F"
+    with pytest.raises(jsonschema.ValidationError):
+        jsonschema.validate(data, json_schema())
+
+
 def test_pka_at_the_working_temperature_without_enthalpy_is_a_warning() -> None:
     pka = "          - {value: 4.0, uncertainty: 0.02, temperature: 37, reference: r}"
     text = method_text(substance="x-acid", pka=pka, temperature="37").replace("        form: acid", "        charge: 0\n        form: acid")
@@ -158,9 +182,16 @@ def test_new_then_check(tmp_path: Path) -> None:
     again = run("new", "my-method", cwd=tmp_path)
     assert again.returncode == 1
     assert again.stderr.strip() == "dossier new: my-method.yaml exists; choose another name with -o or add --force"
+    upper = run("new", "QC-M-0042", cwd=tmp_path)  # laboratories number their methods so
+    assert upper.returncode == 0, upper.stderr
+    assert "id: QC-M-0042 " in (tmp_path / "QC-M-0042.yaml").read_text(encoding="utf-8")
+    assert run("check", "--strict", "QC-M-0042.yaml", cwd=tmp_path).returncode == 0
     bad = run("new", "My Method", cwd=tmp_path)
     assert bad.returncode == 2
-    assert "a method id is lower-case letters" in bad.stderr
+    assert bad.stderr.strip().endswith(
+        "dossier new: error: argument ID: a method id is letters (a-z, A-Z), digits, '-', '_' or '.', "
+        "starting with a letter or digit, at most 63 characters; got 'My Method'"
+    )
 
 
 def test_schema_command_prints_the_schema() -> None:

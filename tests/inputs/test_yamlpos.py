@@ -52,6 +52,41 @@ def test_refused_documents(text: str | bytes, message: str) -> None:
     assert str(info.value).startswith(message)
 
 
+MAPPING_COLON = (
+    "YAML syntax: a ':' where no key can start; likely this line is indented more than the key above it, "
+    "or the line above lacks its ':', or a value holding ': ' needs quotes"
+)
+
+
+@pytest.mark.parametrize(
+    ("text", "position", "message"),
+    [
+        ("method:\n\tid: x\n", (2, 1), "YAML syntax: a tab character; YAML indents with spaces, never tabs: replace it with spaces"),
+        ("method:\n    id: x\n  title: y\n", (3, 3),
+         "YAML indentation: this line is indented to column 3, where no mapping above it has its keys (the enclosing one, "
+         "from line 1, has them at column 1); indent each key exactly like the other keys of its mapping"),
+        ("s:\n  - id: a\n    c: []\n   - id: b\n", (4, 4),
+         "YAML indentation: this line is indented to column 4, but the items of the list from line 2 start at column 3; "
+         "start each '-' of one list in the same column"),
+        ("s:\n  - id: a\n  c: []\n", (3, 3),
+         "YAML indentation: this line is in the column of the '-' of the list from line 2 but is not an item; "
+         "a key of an item is indented past its '-', like the item's first key"),
+        ("a:\n  b: 1\n  - c\n", (3, 3),
+         "YAML indentation: a list item ('-') among the keys of the mapping from line 2 (keys at column 3); "
+         "a list goes under a key of its own, indented below it"),
+        ("method:\n  id: x\n    title: y\n", (3, 10), MAPPING_COLON),  # indented more than its neighbour
+        ("method:\n  id x\n  title: y\n", (3, 8), MAPPING_COLON),  # the line above lacks its ':'
+        ("method:\n  title: a: b\n", (2, 11), MAPPING_COLON),  # a value holding ': '
+    ],
+)
+def test_syntax_mistakes_made_by_hand_are_named_in_plain_words(text: str, position: tuple[int, int], message: str) -> None:
+    with pytest.raises(YamlError) as info:
+        load_yaml(text)
+    assert (info.value.position.line, info.value.position.column) == position
+    assert str(info.value) == message
+    assert "<block" not in message and "token" not in message  # none of the parser's own words
+
+
 def test_alias_bomb_is_refused_quickly() -> None:
     lines = ["a0: &a0 [x, x, x, x, x, x, x, x, x, x]"]
     for i in range(1, 10):
