@@ -3,7 +3,7 @@ written only by the publish stage (and the cache's own store).
 
 Layers (docs in DEVELOPERS.md): chemistry → inputs → analysis → render →
 publish, with audit and the application layer beside them and the command
-line on top. The leaves ``limits``, ``layout`` and ``problems`` import nothing
+line on top. The leaves ``limits``, ``layout``, ``display`` and ``problems`` import nothing
 of the package and may be imported by any layer.
 """
 
@@ -15,7 +15,7 @@ from pathlib import Path
 import pytest
 
 PACKAGE = Path(__file__).resolve().parents[1] / "dossier"
-LEAVES = {"limits", "layout", "problems", "", "__version__"}  # "" and "__version__": the package itself
+LEAVES = {"limits", "layout", "display", "problems", "", "__version__"}  # "" and "__version__": the package itself
 
 # Which parts of the package each part may import (besides itself and the leaves).
 ALLOWED = {
@@ -31,6 +31,7 @@ ALLOWED = {
     "limits": set(),
     "layout": set(),
     "problems": set(),
+    "display": set(),
     "": set(),
 }
 
@@ -79,7 +80,7 @@ def test_imports_read_one_way(path: Path) -> None:
         sub = target.split(".")[1:]
         name = sub[0] if sub else ""
         dotted = ".".join(sub[:2])
-        if name in {"limits", "layout", "problems"} and name != part and part in ("limits", "layout", "problems"):
+        if name in {"limits", "layout", "display", "problems"} and name != part and part in ("limits", "layout", "display", "problems"):
             pytest.fail(f"{path.relative_to(PACKAGE)}:{line}: the leaf {part} imports {target}")
         if name == "" and target not in ("dossier", "dossier.__version__"):
             pytest.fail(f"{path.relative_to(PACKAGE)}:{line}: imports {target} from the package root")

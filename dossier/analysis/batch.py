@@ -53,7 +53,8 @@ class Input:
     step : int or None
         For a pKa: the ionization step (0 = first).
     label : str
-        For people, e.g. ``pKa2 of phosphoric acid``.
+        For people, e.g. ``pKa2 of phosphoric acid``, ``concentration of
+        potassium dihydrogen phosphate, KH₂PO₄``.
     unit : str
         Unit of the input as varied (``pKa``, ``log10(c/(mol/L))``, ``°C``, ``mol/kg``).
     nominal : float
@@ -163,12 +164,12 @@ def inputs_of(spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[Input, ..
         seen.add(c.substance)
         for j, p in enumerate(c.pka):
             half = root3 * p.uncertainty if p.distribution == Distribution.RECTANGULAR else 0.0
-            out.append(Input(InputKind.PKA, k, j, f"pKa{j + 1} of {c.substance}", "pKa", p.thermodynamic, p.uncertainty,
+            out.append(Input(InputKind.PKA, k, j, f"pKa{j + 1} of {c.name}", "pKa", p.thermodynamic, p.uncertainty,
                              p.distribution, half, same_substance(spec, k, j)))
     for k, c in enumerate(spec.components):
         rel = c.tolerance / c.concentration
         u_log = (rel / root3) / np.log(10.0)  # first order: u(log10 c) = u(c) / (c ln 10)
-        out.append(Input(InputKind.CONCENTRATION, k, None, f"concentration of {c.substance} ({c.form})", "log10(c/(mol/L))",
+        out.append(Input(InputKind.CONCENTRATION, k, None, f"concentration of {c.added_as}", "log10(c/(mol/L))",
                          float(np.log10(c.concentration)), float(u_log), Distribution.RECTANGULAR, rel))
     out.append(Input(InputKind.TEMPERATURE, None, None, "temperature", "°C", conditions.temperature,
                      conditions.temperature_tolerance / root3, Distribution.RECTANGULAR, conditions.temperature_tolerance))

@@ -63,15 +63,16 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
     sid, k = sa.spec.id, s.id
     base = f"{sid}/{k}" if s.claimed else f"{sid}/appendix/{k}"
     v = s.validity
+    first = f"total of {sa.spec.components[0].added_as}"
     out = [
         Entry(f"{base}/ph", s.ph, "pH", f"pH by the shortcut {k}, nominal inputs", k, sid),
         Entry(f"{base}/error", s.error, "pH", f"error of {k} (shortcut − exact), nominal inputs", k, sid),
         Entry(f"{base}/max_abs_error", v.max_abs_error, "pH", f"largest |error| of {k} over the working range", "working-range-maximum", sid),
-        Entry(f"{base}/max_abs_error_at", v.max_abs_error_at, "mol/L", "where the largest |error| occurs (first component's total)", "working-range-maximum", sid),
+        Entry(f"{base}/max_abs_error_at", v.max_abs_error_at, "mol/L", f"where the largest |error| occurs ({first})", "working-range-maximum", sid),
     ]
     for i, iv in enumerate(v.concentration_intervals):
-        out.append(Entry(f"{base}/validity_total/{i}/low", iv.low, "mol/L", f"lower end of validity interval {i + 1} (first component's total)", "validity-brent", sid))
-        out.append(Entry(f"{base}/validity_total/{i}/high", iv.high, "mol/L", f"upper end of validity interval {i + 1} (first component's total)", "validity-brent", sid))
+        out.append(Entry(f"{base}/validity_total/{i}/low", iv.low, "mol/L", f"lower end of validity interval {i + 1} ({first})", "validity-brent", sid))
+        out.append(Entry(f"{base}/validity_total/{i}/high", iv.high, "mol/L", f"upper end of validity interval {i + 1} ({first})", "validity-brent", sid))
     for i, iv in enumerate(v.pka_intervals):
         out.append(Entry(f"{base}/validity_pka/{i}/low", iv.low, "pKa", f"lower end of pKa interval {i + 1}", "validity-brent", sid))
         out.append(Entry(f"{base}/validity_pka/{i}/high", iv.high, "pKa", f"upper end of pKa interval {i + 1}", "validity-brent", sid))
@@ -95,10 +96,10 @@ def ledger_entries(analysis: MethodAnalysis) -> tuple[Entry, ...]:
     for sa in analysis.solutions:
         sid = sa.spec.id
         for ci, c in enumerate(sa.spec.components):
-            out.append(Entry(f"{sid}/component/{ci}/total", c.concentration, "mol/L", f"total of {c.substance} ({c.concentration_text} as written)", "unit-conversion", sid))
+            out.append(Entry(f"{sid}/component/{ci}/total", c.concentration, "mol/L", f"total of {c.added_as} ({c.concentration_text} as written)", "unit-conversion", sid))
             for j, p in enumerate(c.pka):
-                out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/thermodynamic", p.thermodynamic, "pKa", f"pKa{j + 1} of {c.substance} at 25 °C and I = 0", "van-t-hoff", sid))
-                out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/at_working_temperature", p.at_working_temperature, "pKa", f"pKa{j + 1} of {c.substance} at the working temperature", "van-t-hoff", sid))
+                out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/thermodynamic", p.thermodynamic, "pKa", f"pKa{j + 1} of {c.name} at 25 °C and I = 0", "van-t-hoff", sid))
+                out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/at_working_temperature", p.at_working_temperature, "pKa", f"pKa{j + 1} of {c.name} at the working temperature", "van-t-hoff", sid))
         e = sa.exact
         mc = sa.monte_carlo.exact
         out += [

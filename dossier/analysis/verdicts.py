@@ -20,6 +20,8 @@ from dataclasses import dataclass
 from enum import StrEnum
 
 from ..chemistry import CATALOGUE
+from ..display import fixed, plain, signed, significant
+from ..inputs.formulas import subscripted
 from ..inputs.units import format_concentration
 from ..inputs.model import Method, SolutionSpec
 from .montecarlo import McResult
@@ -70,8 +72,8 @@ def format_percent(p: float) -> str:
     if p == 0.0:
         return "0 %"
     if p * 100 >= 0.1:
-        return f"{p * 100:.1f} %"
-    return f"{p * 100:.1g} %"
+        return f"{fixed(p * 100, 1)} %"
+    return f"{significant(p * 100, 1)} %"
 
 
 def verdict(v: ValidityResult, mc: McResult, probability: float) -> Verdict:
@@ -81,9 +83,9 @@ def verdict(v: ValidityResult, mc: McResult, probability: float) -> Verdict:
     allowed = 1.0 - probability
     lo, hi = v.working_range
     reasons = [
-        f"error at the nominal composition {v.nominal_error:+.3f} pH (limit ±{limit:g})",
-        f"largest |error| over the working range {_range(lo, hi)}: {v.max_abs_error:.3f} pH at {format_concentration(v.max_abs_error_at)}",
-        f"P(|error| > {limit:g}) = {format_percent(p)} under the stated uncertainties (allowed {format_percent(allowed)}; {mc.draws:,} Monte-Carlo draws)",
+        f"error at the nominal composition {signed(v.nominal_error)} pH (limit ±{plain(limit)})",
+        f"largest |error| over the working range {_range(lo, hi)}: {fixed(v.max_abs_error)} pH at {format_concentration(v.max_abs_error_at)}",
+        f"P(|error| > {plain(limit)}) = {format_percent(p)} under the stated uncertainties (allowed {format_percent(allowed)}; {mc.draws:,} Monte-Carlo draws)",
     ]
     if abs(v.nominal_error) > limit:
         return Verdict(FAIL, "", tuple(reasons))
@@ -93,14 +95,19 @@ def verdict(v: ValidityResult, mc: McResult, probability: float) -> Verdict:
         parts = " and ".join(_range(a, b) for a, b in v.holds_within_working_range) or "no part of it"
         conditions.append(f"holds only for {parts} of the working range {_range(lo, hi)}")
     if p > allowed:
-        conditions.append(f"holds only at nominal inputs: with the stated uncertainties P(|error| > {limit:g}) = {format_percent(p)}, above the allowed {format_percent(allowed)}")
+        conditions.append(f"holds only at nominal inputs: with the stated uncertainties P(|error| > {plain(limit)}) = {format_percent(p)}, above the allowed {format_percent(allowed)}")
     if not conditions:
         return Verdict(PASS, "", tuple(reasons))
     return Verdict(CONDITIONAL, "; ".join(conditions), tuple(reasons))
 
 
 def _composition(spec: SolutionSpec) -> str:
-    parts = [f"{c.compound} {format_concentration(c.concentration)}" for c in spec.components]
+    # "potassium dihydrogen phosphate (KH₂PO₄) 20 mmol/L": the form as added, then its concentration
+    parts = [
+        f"{c.compound} ({subscripted(c.formula)}) {format_concentration(c.concentration)}" if c.formula
+        else f"{c.added_as}: {format_concentration(c.concentration)}"
+        for c in spec.components
+    ]
     if spec.strong_acid:
         parts.append(f"strong acid {format_concentration(spec.strong_acid)}")
     if spec.strong_base:
@@ -118,18 +125,18 @@ def justification(method: Method, spec: SolutionSpec, v: ValidityResult, exact_p
     limit = v.limit
     lo, hi = v.working_range
     pkas = "; ".join(
-        f"pKa{j + 1} of {comp.substance} {p.at_working_temperature:.3f} ± {p.uncertainty:g} ({'substance table, ' if p.origin != 'method file' else ''}source {p.reference})"
+        f"pKa{j + 1} of {comp.name} {fixed(p.at_working_temperature)} ± {plain(p.uncertainty)} ({'substance table, ' if p.origin != 'method file' else ''}source {p.reference})"
         for comp in spec.components[:1]
         for j, p in enumerate(comp.pka)
     )
     p = mc.p_exceed[v.shortcut]
     text = (
-        f"The pH of solution '{spec.id}' ({_composition(spec)}, {c.temperature:g} °C) is calculated in the procedure by "
+        f"The pH of solution '{spec.id}' ({_composition(spec)}, {plain(c.temperature)} °C) is calculated in the procedure by "
         f"the shortcut '{approx.title}' ({approx.id}). Compared with the exact solution of the charge and mass balances "
-        f"(activity model {c.activity}; {pkas}), which gives pH {exact_ph:.3f} (standard uncertainty {exact_u:.3f}), "
-        f"the shortcut's error at the nominal composition is {v.nominal_error:+.3f} pH, and over the working range "
-        f"{_range(lo, hi)} its largest magnitude is {v.max_abs_error:.3f} pH (at {format_concentration(v.max_abs_error_at)}), "
-        f"against the acceptance limit of ±{limit:g} pH. With the stated uncertainties of the pKa values, concentrations and "
+        f"(activity model {c.activity}; {pkas}), which gives pH {fixed(exact_ph)} (standard uncertainty {fixed(exact_u)}), "
+        f"the shortcut's error at the nominal composition is {signed(v.nominal_error)} pH, and over the working range "
+        f"{_range(lo, hi)} its largest magnitude is {fixed(v.max_abs_error)} pH (at {format_concentration(v.max_abs_error_at)}), "
+        f"against the acceptance limit of ±{plain(limit)} pH. With the stated uncertainties of the pKa values, concentrations and "
         f"temperature (Monte Carlo, {mc.draws:,} draws, seed {mc.seed}), the probability that the error exceeds the limit is "
         f"{format_percent(p)} (required at most {format_percent(1 - method.criteria.probability)})."
     )

@@ -297,6 +297,7 @@ def _component(ctx: _Ctx, loc: Loc, comp: ComponentIn, refs: set[str], condition
         working_range_text=(comp.working_range[0], comp.working_range[1]),
         molar_mass=molar_mass,
         pka=tuple(pkas),  # type: ignore[arg-type]
+        formula=table_form.formula if table_form else None,
     )
 
 

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import re
 
-__all__ = ["ATOMIC_WEIGHTS", "FormulaError", "molar_mass"]
+__all__ = ["ATOMIC_WEIGHTS", "FormulaError", "molar_mass", "subscripted"]
 
 ATOMIC_WEIGHTS: dict[str, float] = {
     "H": 1.008,
@@ -31,6 +31,9 @@ ATOMIC_WEIGHTS: dict[str, float] = {
     "Ca": 40.078,
 }
 """Abridged standard atomic weights [g/mol] of the elements the table uses."""
+
+_SUBSCRIPT = str.maketrans("0123456789", "₀₁₂₃₄₅₆₇₈₉")
+_COUNT_AFTER_ATOM = re.compile(r"(?<=[A-Za-z)])\d+")
 
 _TOKEN = re.compile(r"([A-Z][a-z]?)(\d*)|(\()|(\))(\d*)")
 
@@ -94,3 +97,29 @@ def molar_mass(formula: str) -> float:
             raise FormulaError(f"empty part in formula {formula!r}")
         total += count * _parse(body)
     return round(total, 3)
+
+
+def subscripted(formula: str) -> str:
+    """A formula for reading: atom counts as subscript digits (U+2080 … U+2089).
+
+    The leading count of an adduct (the 10 of ``·10H2O``) stays on the line.
+
+    Parameters
+    ----------
+    formula : str
+        As the substance table writes it, e.g. ``"KH2PO4"``.
+
+    Returns
+    -------
+    str
+
+    Examples
+    --------
+    >>> subscripted("KH2PO4")
+    'KH₂PO₄'
+    >>> subscripted("Na2B4O7·10H2O")
+    'Na₂B₄O₇·10H₂O'
+    >>> subscripted("Ca(OH)2")
+    'Ca(OH)₂'
+    """
+    return _COUNT_AFTER_ATOM.sub(lambda m: m.group(0).translate(_SUBSCRIPT), formula)

@@ -13,6 +13,7 @@ from enum import StrEnum
 import numpy as np
 
 from ..chemistry import Protolyte, Solution
+from .formulas import subscripted
 
 __all__ = [
     "PkaValue",
@@ -92,7 +93,11 @@ class ComponentSpec:
     """One substance of a solution, validated and converted.
 
     Concentrations are in mol/L; ``tolerance`` is the half-width of a
-    rectangular distribution; ``working_range`` is (low, high).
+    rectangular distribution; ``working_range`` is (low, high). ``substance``
+    is the id as written (a table id or the method's own name), ``name`` the
+    substance's name for people, ``compound`` and ``formula`` the form as
+    added (the table's compound and formula for that form; ``formula`` is
+    None for a form the table does not list).
     """
 
     substance: str
@@ -110,6 +115,27 @@ class ComponentSpec:
     working_range_text: tuple[str, str]
     molar_mass: float | None
     pka: tuple[PkaValue, ...]
+    formula: str | None = None
+
+    @property
+    def form_words(self) -> str:
+        """The form as added, in words: ``fully protonated``, ``1 proton removed``, ``fully deprotonated``."""
+        if self.removed == 0:
+            return "fully protonated"
+        if self.removed == len(self.pka):
+            return "fully deprotonated"
+        return f"{self.removed} proton{'' if self.removed == 1 else 's'} removed"
+
+    @property
+    def added_as(self) -> str:
+        """What is weighed or measured out, for people: ``potassium dihydrogen phosphate, KH₂PO₄``.
+
+        Without a formula (a form the substance table does not list): the
+        substance's name and the form in words, ``glycine, 1 proton removed``.
+        """
+        if self.formula:
+            return f"{self.compound}, {subscripted(self.formula)}"
+        return f"{self.name}, {self.form_words}"
 
     def protolyte(self) -> Protolyte:
         """The engine's protolyte (25 °C thermodynamic values, enthalpies)."""

@@ -21,6 +21,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 from ..chemistry.water import water_density
+from ..display import significant
 
 __all__ = ["UnitError", "Concentration", "parse_concentration", "format_concentration", "ALLOWED_UNITS",
            "celsius", "celsius_difference", "TEMPERATURE_PATTERN"]
@@ -141,8 +142,8 @@ def format_concentration(c: float) -> str:
     """A concentration in the unit that reads best (mol/L, mmol/L, µmol/L, nmol/L)."""
     for factor, unit in ((1.0, "mol/L"), (1e-3, "mmol/L"), (1e-6, "µmol/L"), (1e-9, "nmol/L")):
         if c >= factor * 0.9995:
-            return f"{c / factor:.3g} {unit}"
-    return f"{c:.3g} mol/L"
+            return f"{significant(c / factor, 3)} {unit}"
+    return f"{significant(c, 3)} mol/L"
 
 
 TEMPERATURE_PATTERN = r"^\s*([-+]?[0-9]+(?:\.[0-9]*)?(?:[eE][-+]?[0-9]+)?)\s*(°C|℃|K)\s*$"

@@ -14,6 +14,7 @@ import jinja2
 from markdown_it import MarkdownIt
 from markupsafe import Markup
 
+from .. import display
 from ..analysis.verdicts import VerdictStatus, format_percent
 from ..inputs.units import format_concentration
 
@@ -53,18 +54,6 @@ def reference_key(pka_value: Any) -> str:
     return ("src:" if pka_value.origin == "substance table" else "ref:") + pka_value.reference
 
 
-def _num(value: float, digits: int = 3) -> str:
-    return f"{value:.{digits}f}".replace("-", "−")
-
-
-def _signed(value: float, digits: int = 3) -> str:
-    return f"{value:+.{digits}f}".replace("-", "−")
-
-
-def _sig(value: float, digits: int = 3) -> str:
-    return f"{value:.{digits}g}".replace("-", "−")
-
-
 @lru_cache(maxsize=1)
 def environment() -> jinja2.Environment:
     """The one template environment."""
@@ -79,9 +68,11 @@ def environment() -> jinja2.Environment:
     env.filters.update(
         {
             "markdown": markdown,
-            "num": _num,
-            "signed": _signed,
-            "sig": _sig,
+            # every displayed number goes through dossier.display (U+2212 minus)
+            "num": display.fixed,
+            "signed": display.signed,
+            "sig": display.significant,
+            "g": display.plain,
             "pct": format_percent,
             "conc": format_concentration,
             "mark": lambda status: STATUS_MARK.get(status, "?"),

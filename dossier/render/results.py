@@ -124,6 +124,7 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
                 "substance": comp.substance,
                 "name": comp.name,
                 "compound": comp.compound,
+                "formula": comp.formula,
                 "from_table": comp.from_table,
                 "form": comp.form,
                 "charge": comp.charge,

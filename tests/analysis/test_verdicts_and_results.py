@@ -11,6 +11,7 @@ from pathlib import Path
 
 import pytest
 
+from dossier import display
 from dossier.analysis.method import AnalysisSettings, analyse_method
 from dossier.render.results import csv_tables, results_document
 from dossier.inputs.loader import load_method
@@ -68,10 +69,28 @@ def test_justification_has_every_number_and_the_cautions() -> None:
     a = demo("benzoate-extract")
     s = a.solutions[0].shortcuts[0]
     text = s.justification
-    assert f"{s.error:+.3f}" in text and f"{s.validity.max_abs_error:.3f}" in text
+    assert s.error < 0  # the check below is about the sign of a negative number
+    # numbers are written as on the pages: U+2212 minus, never a hyphen-minus
+    assert display.signed(s.error, 3) in text and display.MINUS in text and f"{s.error:+.3f}" not in text
+    assert f"{s.validity.max_abs_error:.3f}" in text
     assert "±0.05 pH" in text and "20,000 draws" in text and f"seed {FAST.seed}" in text
     assert "does not replace measurement" in text and "qualified staff" in text
     assert "fit for this purpose over the whole working range" in text
+
+
+def test_justification_and_input_labels_name_the_forms_as_added() -> None:
+    a = demo("phosphate-buffer-hh")
+    sa = a.solutions[0]
+    text = sa.shortcuts[0].justification
+    # the two forms of phosphoric acid, by name and formula as the substance table gives them
+    assert "potassium dihydrogen phosphate (KH₂PO₄) 20 mmol/L" in text
+    assert "disodium hydrogen phosphate (anhydrous) (Na₂HPO₄) 20 mmol/L" in text
+    assert "pKa1 of phosphoric acid" in text and "phosphoric-acid" not in text
+    labels = [c.label for c in sa.gum.contributions]
+    assert "concentration of potassium dihydrogen phosphate, KH₂PO₄" in labels
+    assert "concentration of disodium hydrogen phosphate (anhydrous), Na₂HPO₄" in labels
+    assert "pKa2 of phosphoric acid" in labels
+    assert not any("phosphoric-acid" in x or "(1)" in x or "(2)" in x for x in labels)
 
 
 def test_results_document_has_the_documented_keys() -> None:
@@ -81,7 +100,8 @@ def test_results_document_has_the_documented_keys() -> None:
     assert set(doc["criteria"]) == {"max_ph_error", "probability"}
     sol = doc["solutions"][0]
     assert set(sol["conditions"]) >= {"temperature_c", "pkw", "activity", "debye_huckel_a", "background_ionic_strength"}
-    assert set(sol["components"][0]) >= {"substance", "pka", "charge", "removed", "total_mol_per_l", "working_range_mol_per_l"}
+    assert sol["components"][0]["formula"] == "C4H12ClNO3"  # TRIS hydrochloride, ASCII as in the table
+    assert set(sol["components"][0]) >= {"substance", "compound", "formula", "pka", "charge", "removed", "total_mol_per_l", "working_range_mol_per_l"}
     assert set(sol["exact"]) >= {"ph", "ph_conc", "ionic_strength"}
     for ap in sol["approximations"]:
         assert set(ap) >= {"id", "ph", "error", "verdict", "validity_total_mol_per_l", "validity_pka", "max_abs_error_working_range", "monte_carlo"}
