@@ -27,14 +27,7 @@ from .html import render
 if TYPE_CHECKING:
     from ..publish.diff import DossierDiff
 
-__all__ = ["BuildInfo", "RefView", "shared_assets", "render_method", "method_pdf", "method_pdf_path", "dossier_pdf", "render_site", "OUTPUT_README", "references_for"]
-
-OUTPUT_README = """# output/
-
-`make demo` and `dossier build` write the dossier here. Everything in this
-folder except this file is generated and ignored by git.
-"""
-"""The README.md every build writes at the top of the output (the same as the committed one)."""
+__all__ = ["BuildInfo", "RefView", "shared_assets", "render_method", "method_pdf", "method_pdf_path", "dossier_pdf", "render_site", "references_for"]
 
 
 @dataclass(frozen=True)
@@ -153,15 +146,15 @@ def _pdf(html: str, base: str, files: dict[str, bytes]) -> bytes:
 
 
 def shared_assets() -> dict[str, bytes]:
-    """Files every page needs: README, stylesheets, equation images (a new dict
-    each call; drawn once per process)."""
+    """Files every page needs: stylesheets, equation images (a new dict each
+    call; drawn once per process). A dossier holds only what the build made:
+    no README or other placeholder of the output folder is copied in."""
     return dict(_shared_assets())
 
 
 @lru_cache(maxsize=1)
 def _shared_assets() -> dict[str, bytes]:
-    files: dict[str, bytes] = {"README.md": OUTPUT_README.encode()}
-    files["assets/site.css"] = _asset("site.css")
+    files: dict[str, bytes] = {"assets/site.css": _asset("site.css")}
     files["assets/pdf.css"] = _asset("pdf.css")
     files["assets/favicon.svg"] = _asset("favicon.svg")
     for e in all_equations():
