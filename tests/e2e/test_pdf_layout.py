@@ -128,3 +128,50 @@ def test_the_margin_check_sees_a_word_past_the_right_margin() -> None:
     below = Word("below", left, height - 2, left + 10, height + 5)
     assert stray_words(Page(width, height, [inside]), margins) == []
     assert len(stray_words(Page(width, height, [inside, past, below]), margins)) == 2
+
+
+class _LineParser(HTMLParser):
+    """Text blocks of ``pdftotext -bbox-layout``: per block its width and its lines (width, words)."""
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.blocks: list[tuple[int, float, list[list]]] = []
+        self._page = 0
+        self._in_word = False
+
+    def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
+        a = {k: v or "" for k, v in attrs}
+        if tag == "page":
+            self._page += 1
+        elif tag == "block":
+            self.blocks.append((self._page, float(a["xmax"]) - float(a["xmin"]), []))
+        elif tag == "line":
+            self.blocks[-1][2].append([float(a["xmax"]) - float(a["xmin"]), []])
+        elif tag == "word":
+            self._in_word = True
+
+    def handle_endtag(self, tag: str) -> None:
+        if tag == "word":
+            self._in_word = False
+
+    def handle_data(self, data: str) -> None:
+        if self._in_word:
+            self.blocks[-1][2][-1][1].append(data)
+
+
+def test_no_paragraph_breaks_after_its_first_word(built: Path) -> None:
+    """A line of one word followed by a full line in the same paragraph is a broken line, not prose.
+
+    (Tick labels of figures are numbers and are not looked at: only a word of letters counts.)
+    """
+    pdftotext = require_executable("pdftotext", "reads the lines of a PDF")
+    found = []
+    for pdf in [built / "methods" / mid / f"{mid}.pdf" for mid in method_ids()]:
+        out = subprocess.run([pdftotext, "-bbox-layout", str(pdf), "-"], capture_output=True, text=True, check=True, timeout=300).stdout
+        parser = _LineParser()
+        parser.feed(out)
+        for page, width, lines in parser.blocks:
+            for (w1, words1), (w2, _) in zip(lines, lines[1:]):
+                if width > 100 * MM and len(words1) == 1 and words1[0].isalpha() and w1 < 0.15 * width and w2 > 0.8 * width:
+                    found.append(f"{pdf.name} p. {page}: line {words1[0]!r} then a full line")
+    assert not found, found
