@@ -150,7 +150,8 @@ def _pdf(html: str, base: str, files: dict[str, bytes]) -> bytes:
 
 def shared_assets() -> dict[str, bytes]:
     """Files every page needs: stylesheets, icon, equation images (a new dict
-    each call; drawn once per process)."""
+    each call; drawn once per process). A dossier holds only what the build
+    made: no README or other placeholder of the output folder is copied in."""
     return dict(_shared_assets())
 
 

@@ -13,7 +13,7 @@ from pathlib import Path
 import pytest
 
 from ..conftest import require_executable
-from .conftest import ROOT
+from .conftest import ROOT, method_ids
 
 pytestmark = pytest.mark.browser
 
@@ -99,3 +99,39 @@ def test_site_over_file_urls(browser, built: Path) -> None:  # noqa: ANN001
 def test_site_over_the_preview_server(browser, server: str, built: Path) -> None:  # noqa: ANN001
     check_site(browser, server, built)
     assert server.startswith("http://127.0.0.1:")
+
+
+MIN_EQUATION_HEIGHT = 12  # CSS px: about the height of 9 pt text; common practice, no source
+
+
+@pytest.mark.parametrize("width", [1280, 390])
+def test_every_equation_renders_at_a_readable_size(browser, built: Path, width: int) -> None:  # noqa: ANN001
+    """A wide equation in a table cell must not be shrunk to a sliver (at desktop and phone widths)."""
+    page = browser.new_page(viewport={"width": width, "height": 900})
+    small: list[tuple[str, str, float]] = []
+    seen = 0
+    for rel in ["calculations.html"] + [f"methods/{mid}/index.html" for mid in method_ids()]:
+        page.goto((built / rel).as_uri(), wait_until="load")
+        sizes = page.evaluate("""() => [...document.querySelectorAll('img[src*="equations/"]')].map(
+            i => [i.getAttribute('src'), i.getBoundingClientRect().height, i.naturalHeight])""")
+        assert sizes, (rel, "no equation images")
+        seen += len(sizes)
+        small += [(rel, src, h) for src, h, natural in sizes if h < MIN_EQUATION_HEIGHT or natural == 0]
+    page.close()
+    assert seen > 20
+    assert not small, small
+
+
+def test_the_cautions_appear_once_on_every_page_and_are_visible(browser, built: Path) -> None:  # noqa: ANN001
+    from dossier.render.html import CAUTIONS
+
+    page = browser.new_page(viewport={"width": 1280, "height": 900})
+    for rel in pages(built):
+        page.goto((built / rel).as_uri(), wait_until="load")
+        text = page.evaluate("() => document.body.innerText")  # rendered text: what a reader sees
+        for caution in CAUTIONS:
+            assert text.count(caution) == 1, (rel, caution, text.count(caution))
+        visible = page.evaluate("""(c) => [...document.querySelectorAll('li')].some(
+            li => li.textContent.trim() === c && li.getBoundingClientRect().height > 0)""", CAUTIONS[0])
+        assert visible, rel
+    page.close()

@@ -18,7 +18,6 @@ def run(*args: str, cwd: Path = ROOT) -> subprocess.CompletedProcess[str]:
 def test_every_page_pdf_and_result_is_there(built: Path) -> None:
     for name in ("index.html", "references.html", "calculations.html", "provenance.html", "dossier.pdf", "assets/site.css"):
         assert (built / name).is_file(), name
-    assert not (built / "README.md").exists()  # a dossier holds only what the build made
     ids = method_ids()
     assert len(ids) >= 8
     for mid in ids:
@@ -29,6 +28,16 @@ def test_every_page_pdf_and_result_is_there(built: Path) -> None:
         assert svgs and len(svgs) == len(list((folder / "figures").glob("*.png")))
         doc = json.loads((folder / "results.json").read_text(encoding="utf-8"))
         assert doc["method"]["id"] == mid
+
+
+def test_the_dossier_holds_only_what_the_build_made(built: Path) -> None:
+    """No README (or other placeholder of an output folder) is copied into a dossier or its manifest."""
+    listed = [o["path"] for o in json.loads((built / "manifest.json").read_text(encoding="utf-8"))["outputs"]]
+    assert listed, "the manifest lists no outputs"
+    assert not [p for p in listed if Path(p).name.lower() in ("readme.md", ".gitkeep")], listed
+    assert not [p for p in built.rglob("*") if p.name.lower() in ("readme.md", ".gitkeep")]
+    on_disk = sorted(p.relative_to(built).as_posix() for p in built.rglob("*") if p.is_file())
+    assert on_disk == sorted([*listed, "manifest.json"])
 
 
 def test_index_lists_every_method_with_its_verdicts(built: Path) -> None:

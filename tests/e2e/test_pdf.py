@@ -112,3 +112,19 @@ def test_every_page_renders_and_none_is_blank(built: Path, tmp_path: Path) -> No
             dark = sum(1 for b in px if b < 200)
             assert dark > 0.002 * w * h, f"{img.name} looks blank"
             img.unlink()
+
+
+def test_the_cautions_stand_once_in_each_report_on_its_cover(built: Path) -> None:
+    from dossier.render.html import CAUTIONS
+
+    def pages_of(pdf: Path) -> list[str]:
+        return [" ".join((p.extract_text() or "").split()) for p in PdfReader(str(pdf)).pages]
+
+    for mid in method_ids():
+        texts = pages_of(built / "methods" / mid / f"{mid}.pdf")
+        for caution in CAUTIONS:
+            assert [t.count(caution) for t in texts] == [1] + [0] * (len(texts) - 1), (mid, caution)
+    texts = pages_of(built / "dossier.pdf")
+    for caution in CAUTIONS:
+        counts = [t.count(caution) for t in texts]
+        assert max(counts) == 1 and sum(counts) == len(method_ids()) + 1, caution  # each report's cover and the dossier's
