@@ -32,7 +32,7 @@ from .. import __version__  # noqa: E402
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis  # noqa: E402
 from ..inputs.units import format_concentration  # noqa: E402
 
-__all__ = ["PALETTE", "FigureFile", "method_figures", "figure_bytes"]
+__all__ = ["PALETTE", "FIGURE_KINDS", "FigureFile", "draw_figure", "method_figures", "figure_bytes"]
 
 PALETTE = {
     "ink": "#1b2a3a",
@@ -83,10 +83,11 @@ class FigureFile:
 
 
 def figure_bytes(fig: Figure) -> tuple[bytes, bytes]:
-    """(SVG, PNG) of a figure, deterministic."""
+    """(SVG, PNG) of a figure, deterministic; closes the figure."""
     svg, png = io.BytesIO(), io.BytesIO()
-    fig.savefig(svg, format="svg", metadata={"Date": None, "Creator": f"ph-dossier {__version__}"})
-    fig.savefig(png, format="png", dpi=120, metadata={"Software": f"ph-dossier {__version__}"})
+    with matplotlib.rc_context(_RC):
+        fig.savefig(svg, format="svg", metadata={"Date": None, "Creator": f"ph-dossier {__version__}"})
+        fig.savefig(png, format="png", dpi=120, metadata={"Software": f"ph-dossier {__version__}"})
     plt.close(fig)
     return svg.getvalue(), png.getvalue()
 
@@ -238,24 +239,46 @@ def _contributions(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> t
     return fig, alt, "One-at-a-time ranking: half the change when each input moves alone by ± its standard uncertainty."
 
 
-_KINDS = (
-    ("error-vs-concentration", _error_vs_concentration),
-    ("error-vs-pka", _error_vs_pka),
-    ("error-map", _error_map),
-    ("error-histogram", _histogram),
-    ("contributions", _contributions),
-)
+_KINDS = {
+    "error-vs-concentration": _error_vs_concentration,
+    "error-vs-pka": _error_vs_pka,
+    "error-map": _error_map,
+    "error-histogram": _histogram,
+    "contributions": _contributions,
+}
+FIGURE_KINDS = tuple(_KINDS)
+"""The figure kinds drawn for every claimed shortcut, in page order."""
+
+
+def draw_figure(kind: str, sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
+    """Draw one figure of a claimed shortcut with the dossier's style.
+
+    Parameters
+    ----------
+    kind : str
+        One of :data:`FIGURE_KINDS`.
+    sa, s : SolutionAnalysis, ShortcutAnalysis
+        The solution and its claimed shortcut.
+    limit : float
+        The acceptance limit [pH].
+
+    Returns
+    -------
+    (Figure, str, str)
+        The open figure, its alt text and its caption.
+    """
+    with matplotlib.rc_context(_RC):
+        return _KINDS[kind](sa, s, limit)
 
 
 def method_figures(analysis: MethodAnalysis) -> tuple[FigureFile, ...]:
     """Every figure of a method's analysis, as SVG and PNG bytes."""
     limit = analysis.method.criteria.max_ph_error
     out = []
-    with matplotlib.rc_context(_RC):
-        for sa in analysis.solutions:
-            for s in sa.shortcuts:
-                for kind, draw in _KINDS:
-                    fig, alt, caption = draw(sa, s, limit)
-                    svg, png = figure_bytes(fig)
-                    out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, svg, png, alt, caption))
+    for sa in analysis.solutions:
+        for s in sa.shortcuts:
+            for kind in FIGURE_KINDS:
+                fig, alt, caption = draw_figure(kind, sa, s, limit)
+                svg, png = figure_bytes(fig)
+                out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, svg, png, alt, caption))
     return tuple(out)
