@@ -40,8 +40,9 @@ DEMO = sorted((Path(__file__).resolve().parents[2] / "methods").glob("*.yaml"))
 SVG_NS = "{http://www.w3.org/2000/svg}"
 SLACK_PX = 0.5
 """Rounding allowance when comparing extents [px at the figure's dpi]."""
-MIN_GAP_PX = 2.0
-"""Smallest gap between neighbouring tick labels [px]: closer, they read as one word (common practice, no source)."""
+MIN_GAP_PX = 4.0
+"""Smallest gap between neighbouring tick labels [px at 100 dpi]: about one space at 9 pt; closer,
+labels read as one word (common practice, no source)."""
 
 
 @dataclass
