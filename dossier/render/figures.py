@@ -138,14 +138,16 @@ def power_of_ten(x: float, pos: int | None = None) -> str:
 
 
 def plain_number(x: float, pos: int | None = None) -> str:
-    """Plain-text label of a number for a linear axis: −0.05, 0.0002, 3×10⁻⁵.
+    """One number in plain text for a title or a legend entry: −0.05, 0.0002, 3×10⁻⁵.
+
+    (Axes use :class:`PlainTicks`, which gives every label of an axis one style.)
 
     Parameters
     ----------
     x : float
-        The tick value.
+        The number.
     pos : int, optional
-        Tick position (unused; the formatter signature of matplotlib).
+        Unused (kept so that it also serves as a matplotlib tick formatter).
 
     Returns
     -------
