@@ -12,6 +12,13 @@ plots stay readable printed in grey. Same inputs give byte-identical files:
 fixed SVG hash salt, no dates; text stays text in the SVG (DejaVu Sans, the
 font the site and the PDFs use), which WeasyPrint draws 2.7× faster than
 glyph paths.
+
+Text is plain Unicode throughout: mathtext is off, so that text from method
+files shows as written, and tick labels come from our own formatters
+(:func:`power_of_ten`, :class:`PlainTicks`: 10⁻¹⁰, 2×10⁻⁵, −0.05), never
+from matplotlib's mathtext ones. Legends stand under the plotting area, never
+over a curve, and each figure is sized around its plotting area so that
+nothing is cut off.
 """
 
 from __future__ import annotations
@@ -25,14 +32,16 @@ matplotlib.use("Agg")
 
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
+from matplotlib.axes import Axes  # noqa: E402
 from matplotlib.colors import LinearSegmentedColormap, Normalize  # noqa: E402
 from matplotlib.figure import Figure  # noqa: E402
+from matplotlib.ticker import Formatter, FuncFormatter, LogLocator, MaxNLocator, NullFormatter  # noqa: E402
 
 from .. import __version__  # noqa: E402
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis  # noqa: E402
 from ..inputs.units import format_concentration  # noqa: E402
 
-__all__ = ["PALETTE", "FigureFile", "method_figures", "figure_bytes"]
+__all__ = ["PALETTE", "FIGURE_KINDS", "FigureFile", "draw_figure", "method_figures", "figure_bytes", "power_of_ten", "plain_number", "PlainTicks"]
 
 PALETTE = {
     "ink": "#1b2a3a",
@@ -83,16 +92,195 @@ class FigureFile:
 
 
 def figure_bytes(fig: Figure) -> tuple[bytes, bytes]:
-    """(SVG, PNG) of a figure, deterministic."""
+    """(SVG, PNG) of a figure, deterministic; closes the figure."""
     svg, png = io.BytesIO(), io.BytesIO()
-    fig.savefig(svg, format="svg", metadata={"Date": None, "Creator": f"ph-dossier {__version__}"})
-    fig.savefig(png, format="png", dpi=120, metadata={"Software": f"ph-dossier {__version__}"})
+    with matplotlib.rc_context(_RC):
+        fig.savefig(svg, format="svg", metadata={"Date": None, "Creator": f"ph-dossier {__version__}"})
+        fig.savefig(png, format="png", dpi=120, metadata={"Software": f"ph-dossier {__version__}"})
     plt.close(fig)
     return svg.getvalue(), png.getvalue()
 
 
-_MARGINS = {"left": 0.11, "right": 0.98, "bottom": 0.13, "top": 0.92}
-"""Fixed margins (instead of tight_layout, which costs a fifth of the plotting time)."""
+_SUPERSCRIPT = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
+MINUS = "\u2212"
+"""The minus sign (U+2212) of printed numbers; a hyphen-minus is not one."""
+
+
+def power_of_ten(x: float, pos: int | None = None) -> str:
+    """Plain-text label of a positive number as a power of ten.
+
+    A tick formatter for log axes that keeps text as text: superscript
+    digits and the superscript minus (U+207B) instead of mathtext markup.
+
+    Parameters
+    ----------
+    x : float
+        The tick value; zero, negative or non-finite values get no label.
+    pos : int, optional
+        Tick position (unused; the formatter signature of matplotlib).
+
+    Returns
+    -------
+    str
+        ``"10⁻¹⁰"`` for 1e-10, ``"2×10⁻³"`` for 2e-3, ``"10⁰"`` for 1.
+
+    Examples
+    --------
+    >>> power_of_ten(1e-10), power_of_ten(2e-3), power_of_ten(1.0)
+    ('10⁻¹⁰', '2×10⁻³', '10⁰')
+    """
+    if not (np.isfinite(x) and x > 0):
+        return ""
+    exponent = int(np.floor(np.log10(x) + 1e-9))
+    mantissa = float(f"{x / 10.0**exponent:.3g}")
+    power = "10" + str(exponent).translate(_SUPERSCRIPT)
+    return power if mantissa == 1.0 else f"{mantissa:g}×{power}"
+
+
+def plain_number(x: float, pos: int | None = None) -> str:
+    """One number in plain text for a title or a legend entry: −0.05, 0.0002, 3×10⁻⁵.
+
+    (Axes use :class:`PlainTicks`, which gives every label of an axis one style.)
+
+    Parameters
+    ----------
+    x : float
+        The number.
+    pos : int, optional
+        Unused (kept so that it also serves as a matplotlib tick formatter).
+
+    Returns
+    -------
+    str
+        Up to four significant digits; below 10⁻⁴ in magnitude (except zero)
+        and from 10⁴ up as a multiple of a power of ten; the minus sign is U+2212.
+
+    Examples
+    --------
+    >>> plain_number(-0.05), plain_number(0.0002), plain_number(3e-5), plain_number(0.0)
+    ('−0.05', '0.0002', '3×10⁻⁵', '0')
+    """
+    if x == 0 or 1e-4 <= abs(x) < 1e4:
+        return f"{x:.4g}".replace("-", MINUS)
+    return (MINUS if x < 0 else "") + power_of_ten(abs(x))
+
+
+class PlainTicks(Formatter):
+    """Tick labels of a linear axis in plain text, one style for the whole axis.
+
+    Decimals: as many as the tick step needs (0, 0.0001, 0.0002), with the
+    minus sign U+2212. Steps below 10⁻⁵ or from 10⁵ up: a power of ten shared
+    by every label (0, 2×10⁻⁶, 4×10⁻⁶), written with superscripts, never as
+    mathtext or as an offset in the corner.
+
+    Examples
+    --------
+    >>> f = PlainTicks(); ticks = [-0.1, -0.05, 0.0, 0.05]; f.set_locs(ticks); [f(x) for x in ticks]
+    ['−0.10', '−0.05', '0.00', '0.05']
+    >>> ticks = [0.0, 2e-6, 4e-6]; f.set_locs(ticks); [f(x) for x in ticks]
+    ['0', '2×10⁻⁶', '4×10⁻⁶']
+    """
+
+    def set_locs(self, locs) -> None:  # noqa: ANN001
+        """Choose the labels' style from the ticks about to be drawn."""
+        self._ticks = [float(x) for x in locs]
+        steps = np.diff(sorted(self._ticks))
+        self._step = float(steps.min()) if len(steps) and steps.min() > 0 else (abs(self._ticks[0]) if self._ticks and self._ticks[0] else 1.0)
+        self._exponent = int(np.floor(np.log10(self._step) + 1e-9))
+        self._shared = not -5 <= self._exponent < 5
+        scale = 10.0 ** self._exponent if self._shared else 1.0
+        self._decimals = next(
+            (d for d in range(9) if all(abs(round(x / scale, d) - x / scale) <= 1e-6 * self._step / scale for x in self._ticks)), 8
+        )
+
+    def __call__(self, x: float, pos: int | None = None) -> str:
+        """The label of tick value ``x``."""
+        if not hasattr(self, "_step"):
+            self.set_locs([x])
+        if abs(x) < 1e-9 * self._step:
+            x = 0.0
+        if self._shared:
+            mantissa = f"{x / 10.0 ** self._exponent:.{self._decimals}f}"
+            text = "0" if x == 0 else ("" if mantissa == "1" else mantissa + "×") + "10" + str(self._exponent).translate(_SUPERSCRIPT)
+            return text.replace("-", MINUS)
+        return f"{x:.{self._decimals}f}".replace("-", MINUS)
+
+
+_PLOT = (5.35, 2.6)
+"""Size of a single plotting area [in] (width, height)."""
+_PAD = {"left": 0.75, "right": 0.3, "top": 0.35, "bottom": 0.55}
+"""Room around a plotting area [in]: tick labels and axis labels, the title, the last tick label's overhang."""
+
+
+def _legend_below(fig: Figure, ax: Axes, *, title: str | None = None) -> float:
+    """Draw ``ax``'s legend at the foot of the figure, never over the data.
+
+    Uses as many columns (up to three) as fit the figure's width.
+
+    Returns
+    -------
+    float
+        The legend's height [in], for :func:`_arrange`.
+    """
+    handles, labels = ax.get_legend_handles_labels()
+    renderer = fig.canvas.get_renderer()
+    for ncol in range(min(3, len(labels)), 0, -1):
+        legend = fig.legend(handles, labels, loc="lower center", bbox_to_anchor=(0.5, 0.0), ncol=ncol,
+                            fontsize=7, title=title, title_fontsize=7, borderaxespad=0.3)
+        box = legend.get_window_extent(renderer)
+        if ncol == 1 or box.width <= fig.bbox.width - 0.2 * fig.dpi:
+            break
+        legend.remove()
+    return box.height / fig.dpi + 0.1
+
+
+def _arrange(fig: Figure, *, plot: tuple[float, float] = _PLOT, pad: dict[str, float] = _PAD, below: float = 0.0) -> None:
+    """Size the figure around its plotting area.
+
+    Parameters
+    ----------
+    fig : Figure
+    plot : (float, float)
+        Width and height of the plotting area [in] (colour bar included).
+    pad : dict
+        Room left, right, above and below the plotting area [in].
+    below : float
+        Extra room at the foot for the legend [in].
+
+    Fixed room instead of tight_layout, which costs a fifth of the plotting time.
+    """
+    _place(fig, plot, pad, below)
+    overhang = _y_axis_overhang(fig)
+    if overhang > 0:  # wide tick labels: give the y axis the room it needs, the plotting area keeps its size
+        _place(fig, plot, {**pad, "left": pad["left"] + overhang + 0.05}, below)
+
+
+def _place(fig: Figure, plot: tuple[float, float], pad: dict[str, float], below: float) -> None:
+    """Set the figure's size and its plotting area's position from sizes in inches."""
+    width = pad["left"] + plot[0] + pad["right"]
+    height = pad["top"] + plot[1] + pad["bottom"] + below
+    fig.set_size_inches(width, height)
+    fig.subplots_adjust(left=pad["left"] / width, right=1 - pad["right"] / width,
+                        top=1 - pad["top"] / height, bottom=(pad["bottom"] + below) / height)
+
+
+def _y_axis_overhang(fig: Figure) -> float:
+    """How far the first axes' y tick labels and label reach past the figure's left edge [in] (≤ 0: they fit)."""
+    box = fig.axes[0].yaxis.get_tightbbox(fig.canvas.get_renderer())
+    return 0.0 if box is None else -box.x0 / fig.dpi
+
+
+def _log_axis(axis) -> None:  # noqa: ANN001
+    """Log scale with plain-text decade labels (see :func:`power_of_ten`)."""
+    axis.set_major_locator(LogLocator(base=10.0, numticks=8))
+    axis.set_major_formatter(FuncFormatter(power_of_ten))
+    axis.set_minor_formatter(NullFormatter())
+
+
+def _plain_axis(axis, nbins: int = 7) -> None:  # noqa: ANN001
+    """At most ``nbins`` intervals at 1, 2 or 5 × 10ⁿ, labelled by :class:`PlainTicks`."""
+    axis.set_major_locator(MaxNLocator(nbins=nbins, steps=[1, 2, 5, 10]))
+    axis.set_major_formatter(PlainTicks())
 
 
 def _band(ax, limit: float) -> None:  # noqa: ANN001
@@ -109,9 +297,10 @@ def _ylim(limit: float, focus: float) -> tuple[float, float]:
 
 
 def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
+    """Error against the whole solution's concentration, log axis, legend underneath."""
     v = s.validity
     sw = v.concentration_sweep
-    fig, ax = plt.subplots(figsize=(6.4, 3.8))
+    fig, ax = plt.subplots()
     _band(ax, limit)
     lo, hi = v.working_range
     ax.axvspan(lo, hi, facecolor=PALETTE["range"], edgecolor=PALETTE["orange"], hatch="///", lw=0.0, alpha=0.6, zorder=0, label="working range")
@@ -122,12 +311,13 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
     c0 = sa.spec.components[0].concentration
     ax.plot([c0], [s.error], marker="o", ms=7, mfc="white", mec=PALETTE["ink"], mew=1.5, ls="none", label="nominal", zorder=5)
     ax.set_xscale("log")
+    _log_axis(ax.xaxis)
+    _plain_axis(ax.yaxis)
     ax.set_ylim(*_ylim(limit, v.max_abs_error))
     ax.set_xlabel(f"total concentration of {sa.spec.components[0].substance} (whole solution scaled) / (mol/L)")
     ax.set_ylabel("error, shortcut pH − exact pH")
     ax.set_title(f"{sa.spec.id}: {s.title}")
-    ax.legend(fontsize=7, loc="best")
-    fig.subplots_adjust(**_MARGINS)
+    _arrange(fig, below=_legend_below(fig, ax))
     holds = "; ".join(f"{format_concentration(a)} – {format_concentration(b)}" for a, b in v.holds_within_working_range) or "nowhere"
     alt = (
         f"Error of {s.id} against concentration for solution {sa.spec.id}, from {format_concentration(v.concentration_span[0])} "
@@ -138,9 +328,10 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
 
 
 def _error_vs_pka(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
+    """Error against the key pKa, one curve per concentration, legend underneath."""
     cv = s.curves
     assert cv is not None
-    fig, ax = plt.subplots(figsize=(6.4, 3.8))
+    fig, ax = plt.subplots()
     _band(ax, limit)
     for i, c in enumerate(cv.concentrations):
         color, ls, _ = SERIES[i % len(SERIES)]
@@ -149,39 +340,42 @@ def _error_vs_pka(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tu
     nominal = sa.spec.components[comp].pka[step].thermodynamic
     ax.axvline(nominal, color=PALETTE["ink"], lw=1.0, ls=":", label=f"pKa{step + 1} = {nominal:.3f}")
     ax.set_ylim(-5.0 * limit, 5.0 * limit)
+    _plain_axis(ax.xaxis)
+    _plain_axis(ax.yaxis)
     ax.set_xlabel(f"pKa{step + 1} of {sa.spec.components[comp].substance} (25 °C, I = 0)")
     ax.set_ylabel("error, shortcut pH − exact pH")
     ax.set_title(f"{sa.spec.id}: error against pKa at several concentrations")
-    ax.legend(fontsize=7, title="total of first component", title_fontsize=7, loc="best")
-    fig.subplots_adjust(**_MARGINS)
+    _arrange(fig, below=_legend_below(fig, ax, title="total of first component"))
     ranges = "; ".join(f"{iv.low:.2f} – {iv.high:.2f}" for iv in s.validity.pka_intervals) or "none"
     alt = f"Error of {s.id} against pKa{step + 1} for {len(cv.concentrations)} concentrations; at the nominal concentration it holds for pKa {ranges}."
     return fig, alt, "Error against pKa at 1/100, 1/10, 1, 10 and 100 times the nominal concentration (where allowed)."
 
 
 def _error_map(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
+    """The pKa × log C error map with the acceptance contours; legend underneath."""
     mp = s.map
     assert mp is not None
-    fig, ax = plt.subplots(figsize=(6.4, 4.4))
+    fig, ax = plt.subplots()
     vmax = 3.0 * limit
     img = ax.imshow(
         np.clip(mp.error, -vmax, vmax), origin="lower", aspect="auto", cmap=ERROR_MAP, norm=Normalize(-vmax, vmax),
         extent=(mp.log_c[0], mp.log_c[-1], mp.pka[0], mp.pka[-1]), interpolation="nearest",
     )
     cs = ax.contour(mp.log_c, mp.pka, mp.error, levels=[-limit, limit], colors=[PALETTE["ink"]], linestyles=["--", "-"], linewidths=1.2)
-    ax.clabel(cs, fmt={-limit: f"−{limit:g}", limit: f"+{limit:g}"}, fontsize=7)
+    ax.clabel(cs, fmt={-limit: f"{MINUS}{limit:g}", limit: f"+{limit:g}"}, fontsize=7)
     ax.plot([mp.nominal[1]], [mp.nominal[0]], marker="*", ms=13, mfc="white", mec=PALETTE["ink"], mew=1.2, ls="none", label="this method")
     lo, hi = s.validity.working_range
     ax.plot(np.log10([lo, hi]), [mp.nominal[0]] * 2, color=PALETTE["ink"], lw=3, solid_capstyle="butt", label="working range")
-    cb = fig.colorbar(img, ax=ax, extend="both")
+    cb = fig.colorbar(img, ax=ax, extend="both", format=PlainTicks())
     cb.set_label(f"error / pH (clipped at ±{vmax:g})")
     comp, step = s.validity.pka_step
+    _plain_axis(ax.xaxis)
+    _plain_axis(ax.yaxis)
     ax.set_xlabel(f"log10(total of {sa.spec.components[0].substance} / (mol/L))")
     ax.set_ylabel(f"pKa{step + 1} (25 °C, I = 0)")
-    ax.set_title(f"{sa.spec.id}: {s.id}, error map (solid +{limit:g}, dashed −{limit:g})")
-    ax.legend(fontsize=7, loc="lower left")
+    ax.set_title(f"{sa.spec.id}: {s.id}, error map (solid +{limit:g}, dashed {MINUS}{limit:g})")
     ax.grid(False)
-    fig.subplots_adjust(left=0.1, right=0.97, bottom=0.12, top=0.92)
+    _arrange(fig, plot=(_PLOT[0], 3.2), below=_legend_below(fig, ax))
     inside = float(np.mean(np.abs(mp.error) <= limit)) * 100
     alt = (
         f"Map of the error of {s.id} over pKa{step + 1} from {mp.pka[0]:.1f} to {mp.pka[-1]:.1f} and log10 concentration from "
@@ -192,10 +386,11 @@ def _error_map(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple
 
 
 def _histogram(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
+    """Monte-Carlo distribution of the error, the limits where they fall in view; legend underneath."""
     mc = sa.monte_carlo
     d = mc.errors[s.id]
     counts, edges = np.array(d.histogram[0]), np.array(d.histogram[1])
-    fig, ax = plt.subplots(figsize=(6.4, 3.4))
+    fig, ax = plt.subplots()
     ax.stairs(counts / counts.sum() / np.diff(edges), edges, fill=True, color=PALETTE["band"], ec=PALETTE["blue"], lw=1.0, label="Monte-Carlo error")
     lo, hi = float(edges[0]), float(edges[-1])
     zoom = (hi - lo) < 0.1 * (max(hi, limit) - min(lo, -limit))
@@ -204,15 +399,16 @@ def _histogram(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple
         ax.set_xlim(lo - pad, hi + pad)
     for x, ls in ((-limit, "--"), (limit, "-")):
         if not zoom or lo - 0.15 * (hi - lo) <= x <= hi + 0.15 * (hi - lo):
-            ax.axvline(x, color=PALETTE["orange"], ls=ls, lw=1.5, label=f"limit {x:+g} pH")
+            ax.axvline(x, color=PALETTE["orange"], ls=ls, lw=1.5, label=f"limit {plain_number(x) if x < 0 else '+' + plain_number(x)} pH")
     ax.axvline(d.coverage[0], color=PALETTE["ink"], ls=":", lw=1.0, label="95 % coverage interval")
     ax.axvline(d.coverage[1], color=PALETTE["ink"], ls=":", lw=1.0)
+    _plain_axis(ax.xaxis, nbins=5)
+    _plain_axis(ax.yaxis)
     p = mc.p_exceed[s.id]
     ax.set_xlabel("error, shortcut pH − exact pH" + (f"  (the limits ±{limit:g} pH lie outside this window)" if zoom else ""))
     ax.set_ylabel("probability density / (1/pH)")
     ax.set_title(f"{sa.spec.id}: {s.id}, {mc.draws:,} draws, P(|error| > {limit:g}) = {p:.3g}")
-    ax.legend(fontsize=7, loc="best")
-    fig.subplots_adjust(left=0.11, right=0.98, bottom=0.15, top=0.9)
+    _arrange(fig, plot=(_PLOT[0], 2.3), below=_legend_below(fig, ax))
     alt = (
         f"Histogram of the error of {s.id} over {mc.draws:,} Monte-Carlo draws: mean {d.mean:+.4f} pH, standard deviation {d.u:.4f}, "
         f"95 % coverage interval {d.coverage[0]:+.4f} to {d.coverage[1]:+.4f} pH; probability beyond ±{limit:g} pH {p:.3g}."
@@ -220,42 +416,80 @@ def _histogram(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple
     return fig, alt, "Distribution of the shortcut's error under the stated input uncertainties."
 
 
+_BAR_IN = 0.26
+"""Height of one bar's row in the contributions chart [in]."""
+
+
+def _contribution_bars(ax: Axes, g, title: str, colour: str, hatch: str | None) -> list[str]:  # noqa: ANN001
+    """One panel of the contributions chart: the eight largest, largest on top; returns the text for the alt."""
+    items = list(g.contributions)[:8][::-1]
+    y = np.arange(len(items))
+    ax.barh(y, [c.contribution for c in items], color=PALETTE[colour], hatch=hatch, edgecolor=PALETTE["ink"], lw=0.5)
+    ax.set_yticks(y, [c.label for c in items], fontsize=7)
+    ax.set_ylim(-0.6, max(len(items), 1) - 0.4)
+    _plain_axis(ax.xaxis, nbins=5)
+    ax.set_xlabel("contribution / pH (input moved by ±u)")
+    ax.set_title(f"{title}, u = {plain_number(float(f'{g.u:.3g}'))} pH", fontsize=9)
+    return [f"{c.label} {c.contribution:.2g}" for c in g.contributions[:3]]
+
+
 def _contributions(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
+    """Ranking of the inputs for the exact pH (top) and the shortcut's error (below), each panel full width."""
     assert s.gum is not None
-    fig, axes = plt.subplots(1, 2, figsize=(7.6, 3.2), sharey=False)
-    text = []
-    for ax, g, title in ((axes[0], sa.gum, "exact pH"), (axes[1], s.gum, f"error of {s.id}")):
-        items = [c for c in g.contributions][:8][::-1]
-        y = np.arange(len(items))
-        ax.barh(y, [c.contribution for c in items], color=PALETTE["blue"] if title == "exact pH" else PALETTE["orange"],
-                hatch=None if title == "exact pH" else "//", edgecolor=PALETTE["ink"], lw=0.5)
-        ax.set_yticks(y, [c.label for c in items], fontsize=7)
-        ax.set_xlabel("contribution / pH (input moved by ±u)")
-        ax.set_title(f"{title}\nu = {g.u:.3g} pH", fontsize=9)
-        text.append(f"{title}: " + ", ".join(f"{c.label} {c.contribution:.2g}" for c in g.contributions[:3]))
-    fig.tight_layout()
+    panels = ((sa.gum, "exact pH", "blue", None), (s.gum, f"error of {s.id}", "orange", "//"))
+    fig, axes = plt.subplots(2, 1)
+    text = [f"{title}: " + ", ".join(_contribution_bars(ax, g, title, colour, hatch)) for ax, (g, title, colour, hatch) in zip(axes, panels, strict=True)]
+    renderer = fig.canvas.get_renderer()
+    widest = max(t.get_window_extent(renderer).width for ax in axes for t in ax.get_yticklabels()) / fig.dpi
+    rows = max(min(len(g.contributions), 8) for g, *_ in panels)
+    height = _BAR_IN * rows + 0.15
+    gap = _PAD["bottom"] + _PAD["top"]
+    _arrange(fig, plot=(7.4 - widest - 0.5, 2 * height + gap), pad={**_PAD, "left": widest + 0.2})
+    fig.subplots_adjust(hspace=gap / height)
     alt = "Ranking of the inputs by their contribution to the uncertainty. " + "; ".join(text) + "."
     return fig, alt, "One-at-a-time ranking: half the change when each input moves alone by ± its standard uncertainty."
 
 
-_KINDS = (
-    ("error-vs-concentration", _error_vs_concentration),
-    ("error-vs-pka", _error_vs_pka),
-    ("error-map", _error_map),
-    ("error-histogram", _histogram),
-    ("contributions", _contributions),
-)
+_KINDS = {
+    "error-vs-concentration": _error_vs_concentration,
+    "error-vs-pka": _error_vs_pka,
+    "error-map": _error_map,
+    "error-histogram": _histogram,
+    "contributions": _contributions,
+}
+FIGURE_KINDS = tuple(_KINDS)
+"""The figure kinds drawn for every claimed shortcut, in page order."""
+
+
+def draw_figure(kind: str, sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
+    """Draw one figure of a claimed shortcut with the dossier's style.
+
+    Parameters
+    ----------
+    kind : str
+        One of :data:`FIGURE_KINDS`.
+    sa, s : SolutionAnalysis, ShortcutAnalysis
+        The solution and its claimed shortcut.
+    limit : float
+        The acceptance limit [pH].
+
+    Returns
+    -------
+    (Figure, str, str)
+        The open figure, its alt text and its caption.
+    """
+    with matplotlib.rc_context(_RC):
+        return _KINDS[kind](sa, s, limit)
 
 
 def method_figures(analysis: MethodAnalysis) -> tuple[FigureFile, ...]:
     """Every figure of a method's analysis, as SVG and PNG bytes."""
     limit = analysis.method.criteria.max_ph_error
     out = []
-    with matplotlib.rc_context(_RC):
-        for sa in analysis.solutions:
-            for s in sa.shortcuts:
-                for kind, draw in _KINDS:
-                    fig, alt, caption = draw(sa, s, limit)
-                    svg, png = figure_bytes(fig)
-                    out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, svg, png, alt, caption))
+    for sa in analysis.solutions:
+        for s in sa.shortcuts:
+            for kind in FIGURE_KINDS:
+                fig, alt, caption = draw_figure(kind, sa, s, limit)
+                svg, png = figure_bytes(fig)
+                out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, svg, png, alt, caption))
     return tuple(out)
