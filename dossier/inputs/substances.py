@@ -1,9 +1,12 @@
 """The bundled substance table (dossier/data/substances.yaml).
 
 Thermodynamic pKa values at 25 °C and zero ionic strength, enthalpies and
-heat-capacity changes of ionization, each with its published source and a
-status saying how it was checked (see the header of the data file). Molar
-masses are computed from each form's formula.
+heat-capacity changes of ionization. Every value cites published literature
+(a primary measurement paper, a critically evaluated compilation or a
+handbook edition; :data:`TABLE_SOURCE_KINDS`) and carries a status saying how
+far it was checked against that literature's own text (:data:`STATUSES`, and
+the header of the data file). Molar masses are computed from each form's
+formula.
 """
 
 from __future__ import annotations
@@ -17,11 +20,24 @@ import yaml
 
 from .formulas import molar_mass
 
-__all__ = ["TableValue", "TableStep", "TableForm", "TableSource", "Substance", "SubstanceTable", "load_table", "STATUSES", "SOURCE_KINDS"]
+__all__ = ["TableValue", "TableStep", "TableForm", "TableSource", "Substance", "SubstanceTable", "load_table", "STATUSES", "SOURCE_KINDS",
+           "TABLE_SOURCE_KINDS", "STATUS_MEANINGS"]
 
-STATUSES = ("confirmed", "derived", "computed", "recalled")
-"""How a table value was checked: read in a public copy, converted from one,
-evaluated from a published equation, or recalled from memory (not checked)."""
+STATUSES = ("confirmed", "derived", "computed", "unverified", "recalled")
+"""How far a table value was checked against its source's own published text:
+read there (confirmed), converted from a number read there (derived),
+evaluated at 25 °C from an equation read there (computed), attributed to the
+source by a secondary copy but not read in the source itself (unverified), or
+recalled from memory and not checked at all (recalled)."""
+
+STATUS_MEANINGS = {
+    "confirmed": "read in the source's own published text",
+    "derived": "converted from a number read in the source's own text",
+    "computed": "evaluated at 25 °C from an equation read in the source's own text",
+    "unverified": "attributed to the source by a secondary copy, not read in the source itself",
+    "recalled": "recalled from memory, not checked against any text",
+}
+"""What each status means, in the words the pages and the terminal show."""
 
 SOURCE_KINDS = (
     "primary-measurement",
@@ -31,7 +47,10 @@ SOURCE_KINDS = (
     "in-house-measurement",
     "estimate",
 )
-"""Kinds of source, from most to least direct."""
+"""Kinds of source a method file may cite, from most to least direct."""
+
+TABLE_SOURCE_KINDS = ("primary-measurement", "critically-evaluated-compilation", "handbook")
+"""Kinds of source the bundled table may cite: published literature only."""
 
 
 @dataclass(frozen=True)
@@ -64,12 +83,16 @@ class TableForm:
 
 @dataclass(frozen=True)
 class TableSource:
-    """A published source of table values."""
+    """A published source of table values.
+
+    ``checked`` says which of the source's own text was read to check its
+    values, or that they were not checked against it.
+    """
 
     key: str
     citation: str
     kind: str
-    checked_in: str
+    checked: str
     doi: str | None = None
 
 
@@ -121,16 +144,19 @@ def load_table() -> SubstanceTable:
     --------
     >>> t = load_table()
     >>> t.get("acetic-acid").steps[0].pka
-    TableValue(value=4.757, source='nist46', status='derived')
+    TableValue(value=4.757, source='nist46', status='unverified')
     >>> t.get("phosphoric-acid").form(1).molar_mass
     136.084
     """
     raw = resources.files("dossier").joinpath("data/substances.yaml").read_bytes()
     data = yaml.safe_load(raw)
     sources = {
-        key: TableSource(key, s["citation"], s["kind"], s["checked_in"], s.get("doi"))
+        key: TableSource(key, s["citation"], s["kind"], s["checked"], s.get("doi"))
         for key, s in data["sources"].items()
     }
+    for src in sources.values():
+        if src.kind not in TABLE_SOURCE_KINDS:
+            raise ValueError(f"substances.yaml: source {src.key!r} has kind {src.kind!r}; the table cites only {', '.join(TABLE_SOURCE_KINDS)}")
     substances = {}
     for s in data["substances"]:
         steps = tuple(
@@ -138,5 +164,10 @@ def load_table() -> SubstanceTable:
             for st in s["steps"]
         )
         forms = tuple(TableForm(f["removed"], f["compound"], f["formula"], molar_mass(f["formula"])) for f in s["forms"])
+        for st in steps:
+            for v in (st.pka, st.enthalpy, st.heat_capacity):
+                if v is not None and (v.source not in sources or v.status not in STATUSES):
+                    raise ValueError(f"substances.yaml: substance {s['id']!r} cites source {v.source!r} with status {v.status!r}; "
+                                     f"sources: {', '.join(sources)}; statuses: {', '.join(STATUSES)}")
         substances[s["id"]] = Substance(s["id"], s["name"], int(s["charge"]), steps, forms, s.get("note", ""))
     return SubstanceTable(substances, sources, hashlib.sha256(raw).hexdigest(), len(raw))

@@ -19,7 +19,7 @@ from ..analysis.verdicts import VerdictStatus
 from .results import csv_tables, results_document
 from ..chemistry import ACTIVITY_MODELS, CATALOGUE
 from ..inputs.model import METHOD_FILE, Method
-from ..inputs.substances import SubstanceTable
+from ..inputs.substances import STATUS_MEANINGS, SubstanceTable
 from ..layout import LAYOUT
 from .equations import EXACT_MODEL, all_equations, equation_svg
 from .figures import FigureFile, method_figures
@@ -54,7 +54,7 @@ def references_for(method: Method, table: SubstanceTable, prefix: str = "") -> d
     used = sorted({p.reference for s in method.solutions for c in s.components for p in c.pka if p.origin != METHOD_FILE})
     for key in used:
         src = table.sources[key]
-        out[f"src:{key}"] = RefView(f"{prefix}src-{key}", key, src.citation, src.kind, src.doi, None, f"substance table; checked in: {src.checked_in}")
+        out[f"src:{key}"] = RefView(f"{prefix}src-{key}", key, src.citation, src.kind, src.doi, None, f"substance table; checked: {src.checked}")
     return out
 
 
@@ -247,7 +247,7 @@ def _dossier_pages(analyses: tuple[MethodAnalysis, ...], ctx: BuildContext, diff
     out[LAYOUT.references] = render(
         "references.html", root="", build=build,
         method_refs=[(a, references_for(a.method, table, prefix=f"{a.method.id}-")) for a in analyses],
-        table_sources=list(table.sources.values()),
+        table_sources=list(table.sources.values()), status_meanings=STATUS_MEANINGS,
     ).encode()
     out[LAYOUT.calculations] = render(
         "calculations.html", root="", build=build, exact_model=EXACT_MODEL,

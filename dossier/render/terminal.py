@@ -11,7 +11,7 @@ from rich.table import Table
 
 from ..analysis.pointwise import PointResult
 from ..inputs.model import Method
-from ..inputs.substances import SubstanceTable
+from ..inputs.substances import STATUS_MEANINGS, SubstanceTable
 
 __all__ = ["timing_lines", "point_table", "point_as_dict", "method_points_as_dict", "print_json", "substances_tables", "substances_as_dict"]
 
@@ -103,11 +103,11 @@ def substances_tables(table: SubstanceTable) -> list[Table]:
                 "; ".join(parts),
             )
     sources = Table(title="Sources", title_justify="left")
-    for col in ("key", "kind", "citation", "checked in"):
+    for col in ("key", "kind", "citation", "checked"):
         sources.add_column(col)
     for src in table.sources.values():
-        sources.add_row(src.key, src.kind, src.citation + (f" doi:{src.doi}" if src.doi else ""), src.checked_in)
-    values.caption = "status: confirmed / derived (read in the copy named under 'checked in'), computed (from the source's equation), recalled (from memory, not checked)"
+        sources.add_row(src.key, src.kind, src.citation + (f" doi:{src.doi}" if src.doi else ""), src.checked)
+    values.caption = "status: " + "; ".join(f"{k} ({v})" for k, v in STATUS_MEANINGS.items())
     values.caption_justify = "left"
     return [values, sources]
 

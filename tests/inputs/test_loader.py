@@ -80,7 +80,7 @@ def method_text(**kw: str) -> str:
 def test_table_values_and_stated_values_say_where_they_came_from() -> None:
     m, _ = _one(method_text(pka="          - {uncertainty: 0.01}").replace("references:\n  r: {citation: C, kind: in-house-measurement}\n", ""))
     p = m.solutions[0].components[0].pka[0]
-    assert (p.origin, p.reference, p.status, p.stated, p.enthalpy, p.enthalpy_origin) == (TABLE, "nist46", "derived", 4.757, -0.41, TABLE)
+    assert (p.origin, p.reference, p.status, p.stated, p.enthalpy, p.enthalpy_origin) == (TABLE, "nist46", "unverified", 4.757, -0.41, TABLE)
     m, _ = _one(method_text())
     p = m.solutions[0].components[0].pka[0]
     assert (p.origin, p.reference, p.status, p.stated) == (METHOD_FILE, "r", "stated", 4.756)

@@ -38,14 +38,14 @@ def test_every_value_has_a_source_and_a_status(sid: str) -> None:
 def test_sources_are_classified() -> None:
     for src in TABLE.sources.values():
         assert src.kind in SOURCE_KINDS
-        assert src.citation and src.checked_in
+        assert src.citation and src.checked
 
 
 def test_values_recalled_from_memory_are_marked_as_such() -> None:
-    # Oxalic acid is not in MINTEQA2 v4 or phreeqc.dat; its values are from memory.
+    # No published text was read for oxalic or lactic acid: their values are from memory.
     assert TABLE.get("oxalic-acid").steps[0].pka.status == "recalled"
     assert TABLE.get("lactic-acid").steps[0].pka.status == "recalled"
-    assert TABLE.sources["crc"].checked_in.startswith("not checked")
+    assert TABLE.sources["crc-handbook"].checked.startswith("not checked")
 
 
 @pytest.mark.parametrize(

@@ -8,9 +8,11 @@ memory; each 25 °C number below was read in the NBS paper that assigns it
 Convention: the Bates–Guggenheim convention, log γ = −A√I/(1 + 1.5√I)
 (extended Debye–Hückel with Bå = 1.5, Pure Appl. Chem. 1, 163 (1960)), applied
 to every ion, and the Davies equation as a second model. Thermodynamic pKa
-values and ionization enthalpies are NIST SRD 46 values as carried in
-MINTEQA2 v4 (read in usgs-coupled/phreeqc3 database/minteq.v4.dat, converted
-to the ionization direction; REFERENCES.md §5).
+values and ionization enthalpies are those of the substance table: NIST SRD 46
+(Smith, Martell & Motekaitis 2004), converted to the ionization direction, and
+for carbonic acid Plummer & Busenberg, Geochim. Cosmochim. Acta 46, 1011
+(1982), evaluated at 25 °C from their equations. The SRD 46 values were not
+read in the compilation itself (unverified; REFERENCES.md §5).
 
 Tolerance 0.02 pH, justified as: the convention applied to all ions without
 ion-specific terms (about 0.01, cf. the ±0.015 spread of REFERENCES.md §4.3),
@@ -62,13 +64,15 @@ AT_25 = {
     "phosphate 0.008695/0.03043": 7.413,  # Partanen & Minkkinen 1996 (7.414 in Bower, Paabo & Bates 1961)
     "borax 0.01": 9.180,  # Bower, Paabo & Bates 1969 (NBS scale)
     "carbonate 0.025/0.025": 10.012,  # Bower, Paabo & Bates 1969
-    # acetate 0.1/0.1: 4.650, a table in public firmware (analogdevicesinc/EVAL-ADICUP360,
-    # CN0398.h) that names no source — attribution to Bates (1973) recalled from memory.
+    # acetate 0.1/0.1: 4.650, R. G. Bates, Determination of pH, 2nd ed. (Wiley,
+    # 1973) — recalled from memory, not read there; the number agrees with an
+    # unattributed secondary table (REFERENCES.md §4.2).
     "acetate 0.1/0.1": 4.650,
 }
 
-# 37 °C: the same firmware table (numbers confirmed there; attribution to
-# Bates 1962 / Bower et al. recalled from memory). Carbonate is left out: its
+# 37 °C: R. G. Bates, J. Res. NBS 66A, 179 (1962) and Bower, Paabo & Bates
+# (1969) — attribution recalled from memory, numbers not read in the papers;
+# they agree with an unattributed secondary table (REFERENCES.md §4.2). Carbonate is left out: its
 # ΔCp° (about −371 J/(K·mol), Goldberg 2002, recalled) is not confirmed, and
 # without it van 't Hoff is 0.025 low at 37 °C.
 AT_37 = {
@@ -83,8 +87,8 @@ AT_37 = {
 
 def khp_hetzer_1977(t: float) -> float:
     """pH(S) = 2073.44/T − 13.3270 + 0.045199 T − 3.4846e-5 T² (Hetzer, Durst,
-    Robinson & Bates, J. Res. NBS 81A (1977), doi:10.6028/jres.081A.005; abstract
-    read at booksci, REFERENCES.md §4.1)."""
+    Robinson & Bates, J. Res. NBS 81A (1977), doi:10.6028/jres.081A.005; equation
+    read in the paper's abstract, REFERENCES.md §4.1)."""
     T = t + 273.15
     return 2073.44 / T - 13.3270 + 0.045199 * T - 3.4846e-5 * T * T
 

@@ -70,8 +70,8 @@ def test_debye_huckel_constants_against_freeze_cherry(row: dict[str, str]) -> No
 
 
 def test_debye_huckel_a_at_25c_textbook_and_robinson_stokes() -> None:
-    # "A = 0.509 at 25 °C", the textbook value (quoted in the pyEQL and KTH
-    # Eq-Diagr documentation, REFERENCES.md §3.1), to its three decimals.
+    # "A = 0.509 at 25 °C", the value printed in many textbooks — common
+    # practice, no single source named (REFERENCES.md §3.1) — to its three decimals.
     assert debye_huckel_a(25.0) == pytest.approx(0.509, abs=0.0025)
     # Robinson & Stokes, Electrolyte Solutions (1959), App. 7.1: 0.5108 —
     # recalled from memory, not checked against the book.
