@@ -29,6 +29,7 @@ __all__ = [
     "ION_SIZE",
     "DAVIES_COEFFICIENT_RANGE",
     "PKA_UNCERTAINTY",
+    "MOLAR_MASS",
     "MAX_PH_ERROR",
     "PROBABILITY",
     "PERCENT_TOLERANCE",
@@ -79,6 +80,8 @@ BACKGROUND = (0.0, 5.0)
 """Background ionic strength and the ionic strength of a stated pKa in a method file [mol/kg]."""
 TEMPERATURE_TOLERANCE = (0.0, 20.0)
 """Half-width of the working temperature [°C]."""
+MOLAR_MASS = (0.0, 5000.0)
+"""A molar mass stated in a method file [g/mol] (the low end excluded)."""
 PKA_UNCERTAINTY = (0.0, 2.0)
 """Standard uncertainty of a pKa [pKa units]."""
 MAX_PH_ERROR = (0.0, 2.0)

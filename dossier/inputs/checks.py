@@ -40,7 +40,7 @@ from .yamlpos import LoadedYaml
 
 __all__ = ["build_method", "CONCENTRATION_LIMITS"]
 
-CONCENTRATION_LIMITS = (1e-10, 10.0)
+CONCENTRATION_LIMITS = limits.CONCENTRATION
 """Allowed concentrations in a method file, nominal and working range [mol/L]."""
 
 Loc = tuple[str | int, ...]
@@ -110,8 +110,9 @@ def _tolerance(ctx: _Ctx, loc: Loc, text: str | None, nominal: float, molar_mass
             pct = float(m.group(1))
         except ValueError:
             pct = -1.0
-        if not 0.0 <= pct <= 50.0:
-            ctx.add(loc, f"a percentage tolerance must be 0 … 50 %; got {text!r}")
+        p_lo, p_hi = limits.PERCENT_TOLERANCE
+        if not p_lo <= pct <= p_hi:
+            ctx.add(loc, f"a percentage tolerance must be {_num(p_lo)} … {_num(p_hi)} %; got {text!r}")
             return None
         return nominal * pct / 100.0
     try:
@@ -476,8 +477,9 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     refs = set(mf.references)
     cited: set[str] = set()
     _check_ids(ctx, mf)
-    if c.temperature - c.temperature_tolerance < 0.0 or c.temperature + c.temperature_tolerance > 100.0:
-        ctx.add(("conditions", "temperature_tolerance"), f"{c.temperature:g} ± {c.temperature_tolerance:g} °C leaves the allowed 0 … 100 °C")
+    t_lo, t_hi = limits.TEMPERATURE
+    if c.temperature - c.temperature_tolerance < t_lo or c.temperature + c.temperature_tolerance > t_hi:
+        ctx.add(("conditions", "temperature_tolerance"), f"{c.temperature:g} ± {c.temperature_tolerance:g} °C leaves the allowed {_num(t_lo)} … {_num(t_hi)} °C")
     if c.background_ionic_strength_tolerance > c.background_ionic_strength:
         ctx.add(("conditions", "background_ionic_strength_tolerance"), f"± {c.background_ionic_strength_tolerance:g} mol/kg is larger than the background ionic strength itself ({c.background_ionic_strength:g} mol/kg)")
     if _background_beyond_range(conditions):

@@ -15,6 +15,7 @@ from markdown_it import MarkdownIt
 from markupsafe import Markup
 
 from .. import display
+from ..layout import LAYOUT
 from ..analysis.verdicts import VerdictStatus, format_percent
 from ..inputs.units import format_concentration
 
@@ -80,6 +81,7 @@ def environment() -> jinja2.Environment:
         }
     )
     env.globals["cautions"] = CAUTIONS
+    env.globals["layout"] = LAYOUT  # every path of the dossier, relative to its root
     return env
 
 
