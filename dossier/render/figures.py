@@ -53,6 +53,7 @@ PALETTE = {
     "grey": "#7d838c",
     "band": "#d9e4ee",
     "range": "#f2e2c4",
+    "outside": "#c9ccd1",
 }
 """The dossier's colours: ink for text and axes, four series colours, fills."""
 
@@ -297,6 +298,14 @@ def _band(ax, limit: float) -> None:  # noqa: ANN001
     ax.axhline(0.0, color=PALETTE["ink"], lw=0.6, zorder=1)
 
 
+def _outside(ax, parts: tuple[tuple[float, float], ...], transform=None) -> None:  # noqa: ANN001
+    """Shade the parts of a sweep outside the model's range (or above a solubility): grey, cross-hatched, one legend entry."""
+    for n, (a, b) in enumerate(parts):
+        a, b = (transform(a), transform(b)) if transform else (a, b)
+        ax.axvspan(a, b, facecolor=PALETTE["outside"], edgecolor=PALETTE["grey"], hatch="\\\\", lw=0.0, alpha=0.55, zorder=0.5,
+                   label="outside the model's range (not judged)" if n == 0 else None)
+
+
 def _ylim(limit: float, focus: float) -> tuple[float, float]:
     span = max(3.0 * limit, 1.3 * focus)
     span = min(span, max(3.0, 3.0 * limit))
@@ -311,6 +320,7 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
     _band(ax, limit)
     lo, hi = v.working_range
     ax.axvspan(lo, hi, facecolor=PALETTE["range"], edgecolor=PALETTE["orange"], hatch="///", lw=0.0, alpha=0.6, zorder=0, label="working range")
+    _outside(ax, sw.outside)
     for n, (name, values) in enumerate(sw.parts.items(), start=1):
         color, ls, _ = SERIES[n % len(SERIES)]
         ax.plot(sw.x, values, color=PALETTE[color], ls=ls, lw=1.0, label=f"part: {name}")
@@ -330,8 +340,10 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
         f"Error of {s.id} against concentration for solution {sa.spec.id}, from {format_concentration(v.concentration_span[0])} "
         f"to {format_concentration(v.concentration_span[1])}. Within the working range {format_concentration(lo)} – {format_concentration(hi)} "
         f"the largest |error| is {v.max_abs_error:.3f} pH; the limit is ±{limit:g} pH; it holds within the working range for: {holds}."
+        + (f" Above {format_concentration(v.concentration_cut)} the sweep is outside the model's range and not judged." if v.concentration_cut is not None else "")
     )
-    return fig, alt, "Error against concentration, with the working range (hatched) and the acceptance band."
+    caption = "Error against concentration, with the working range (hatched) and the acceptance band"
+    return fig, alt, caption + ("; grey: outside the model's range (not judged)." if sw.outside else ".")
 
 
 def _error_vs_pka(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
@@ -373,6 +385,8 @@ def _error_map(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple
     ax.plot([mp.nominal[1]], [mp.nominal[0]], marker="*", ms=13, mfc="white", mec=PALETTE["ink"], mew=1.2, ls="none", label="this method")
     lo, hi = s.validity.working_range
     ax.plot(np.log10([lo, hi]), [mp.nominal[0]] * 2, color=PALETTE["ink"], lw=3, solid_capstyle="butt", label="working range")
+    if s.validity.concentration_cut is not None:  # at the nominal pKa; the map's other pKa values move the ionic strength little
+        _outside(ax, ((s.validity.concentration_cut, 10.0 ** mp.log_c[-1]),), np.log10)
     cb = fig.colorbar(img, ax=ax, extend="both", format=PlainTicks())
     cb.set_label(f"error / pH (clipped at ±{vmax:g})")
     comp, step = s.validity.pka_step

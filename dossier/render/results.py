@@ -28,6 +28,24 @@ def _intervals(ivs: tuple[Interval, ...]) -> list[list[float]]:
     return [[iv.low, iv.high] for iv in ivs]
 
 
+def _interval_objects(ivs: tuple[Interval, ...]) -> list[dict[str, Any]]:
+    """Each interval with its ends' ionic strengths and what bounds it."""
+    return [
+        {
+            "low": iv.low,
+            "high": iv.high,
+            "ionic_strength_low": iv.ionic_strength_low,
+            "ionic_strength_high": iv.ionic_strength_high,
+            "without_compensating_errors": iv.without_compensating_errors,
+            "low_is_sweep_end": iv.low_is_sweep_end,
+            "high_is_sweep_end": iv.high_is_sweep_end,
+            "low_is_cut": iv.low_is_cut,
+            "high_is_cut": iv.high_is_cut,
+        }
+        for iv in ivs
+    ]
+
+
 def _comparison(c: Comparison) -> dict[str, Any]:
     return {
         "gum_interval": list(c.gum_interval),
@@ -74,6 +92,16 @@ def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
         "validity_pka": _intervals(v.pka_intervals),
         "validity_pka_robust": [iv.robust for iv in v.pka_intervals],
         "validity_pka_step": {"component": v.pka_step[0], "step": v.pka_step[1] + 1},
+        "validity_total_intervals": _interval_objects(v.concentration_intervals),
+        "validity_pka_intervals": _interval_objects(v.pka_intervals),
+        "model_range": {
+            "max_ionic_strength_mol_per_kg": v.max_ionic_strength,
+            "cut_total_mol_per_l": v.model_range_cut,
+            "solubility_cut_total_mol_per_l": v.solubility_cut,
+            "solubility_component": v.solubility_component,
+            "outside_total_mol_per_l": [list(p) for p in v.concentration_sweep.outside],
+            "outside_pka": [list(p) for p in v.pka_sweep.outside],
+        },
         "max_abs_error_working_range": v.max_abs_error,
         "max_abs_error_at_total_mol_per_l": v.max_abs_error_at,
         "holds_within_working_range_mol_per_l": [list(p) for p in v.holds_within_working_range],
@@ -219,13 +247,15 @@ def csv_tables(analysis: MethodAnalysis) -> dict[str, str]:
         for s in sa.shortcuts + sa.appendix:
             v = s.validity
             for kind, ivs in (("total_mol_per_l", v.concentration_intervals), ("pka", v.pka_intervals)):
-                validity_rows += [[sa.spec.id, s.id, "claimed" if s.claimed else "appendix", kind, iv.low, iv.high, iv.robust] for iv in ivs]
+                validity_rows += [[sa.spec.id, s.id, "claimed" if s.claimed else "appendix", kind, iv.low, iv.high, iv.robust,
+                                  iv.ionic_strength_low, iv.ionic_strength_high, iv.high_is_cut] for iv in ivs]
             if s.claimed and s.gum is not None:
                 sens_rows += [[sa.spec.id, f"error of {s.id}", c.key, c.label, c.unit, c.u, c.coefficient, c.contribution] for c in s.gum.contributions]
                 names, rows = _sweep_rows(v.concentration_sweep)
                 out[f"{sa.spec.id}-{s.id}-concentration-sweep.csv"] = _csv(["total_mol_per_l", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
                 names, rows = _sweep_rows(v.pka_sweep)
                 out[f"{sa.spec.id}-{s.id}-pka-sweep.csv"] = _csv(["pka", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
-    out["validity.csv"] = _csv(["solution", "shortcut", "role", "range_of", "low", "high", "robust"], validity_rows)
+    out["validity.csv"] = _csv(["solution", "shortcut", "role", "range_of", "low", "high", "robust",
+                                     "ionic_strength_low", "ionic_strength_high", "high_is_cut"], validity_rows)
     out["sensitivity.csv"] = _csv(["solution", "quantity", "input", "label", "unit", "u", "coefficient", "contribution"], sens_rows)
     return dict(sorted(out.items()))
