@@ -106,10 +106,8 @@ class ModelUncertainty:
 
 
 MODEL_UNCERTAINTY_SOURCE = (
-    "difference between the model's log γ and the measured mean activity coefficient of NaCl "
-    "(Robinson & Stokes 1959, 0.778 at 0.1 mol/kg and 0.681 at 0.5 mol/kg, recalled from memory), "
-    "interpolated linearly in I from zero at I = 0 and taken as the half-width of a rectangular distribution "
-    "(common practice, no source)"
+    "the model against measured NaCl mean activity coefficients, Robinson & Stokes 1959 (recalled from memory); "
+    "the difference as half-width of a rectangular distribution (common practice, no source)"
 )
 
 

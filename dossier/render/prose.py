@@ -65,9 +65,9 @@ def _point(p: RegionPoint, region: RegionResult) -> str:
 
 
 def _region(region: RegionResult) -> str:
-    text = f"working range {_range(*region.concentration)} × {_span(*region.temperature, '°C')}"
+    text = f"working range {_range(*region.concentration)}; {_span(*region.temperature, '°C')}"
     if region.background[1] > 0.0:
-        text += f" × background {_span(*region.background, 'mol/kg')}"
+        text += f"; background {_span(*region.background, 'mol/kg')}"
     return text
 
 
