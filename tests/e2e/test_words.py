@@ -155,7 +155,7 @@ def test_every_gum_validated_cell_is_explained(built: Path) -> None:
         assert text.count("GUM validated: the GUM interval") == flags.count(True), mid
         assert text.count("GUM not validated: the GUM interval") == flags.count(False), mid
         assert text.count("The Monte Carlo interval is the result to use") == flags.count(False), mid
-        assert text.count("The verdict does not rest on the GUM") == claimed, mid
+        assert text.count("The verdict's conformity probability rests on the uncertainty of the exact pH") == claimed, mid
         for f in flags:
             seen[f] += 1
     assert seen[False], seen  # at the test's 20,000 draws no comparison is validated
