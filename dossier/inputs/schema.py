@@ -102,7 +102,7 @@ class Acceptance(_Model):
     )
     probability: float = Field(
         0.95, ge=limits.PROBABILITY[0], le=limits.PROBABILITY[1], allow_inf_nan=False,
-        description="Required probability that |error| stays within max_ph_error when the inputs vary within their uncertainties (Monte-Carlo verdict).",
+        description="Required conformity probability that the shortcut's pH lies within max_ph_error of the true pH, given the uncertainty of the exact pH (simple acceptance, JCGM 106:2012).",
     )
 
 

@@ -15,9 +15,13 @@ from .. import __version__
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
 from ..analysis.montecarlo import Comparison, Summary
 from ..analysis.sensitivity import GumResult
+from ..analysis.region import RegionPoint
 from ..analysis.validity import Interval, Sweep
+from ..analysis.verdicts import Verdict
+from ..inputs.model import Method
 from ..chemistry.activity import BATES_GUGGENHEIM_BA, DAVIES_COEFFICIENT
 from ..chemistry.solver import TOLERANCE
+from .prose import prose
 
 __all__ = ["RESULTS_FORMAT", "results_document", "csv_tables"]
 
@@ -78,7 +82,35 @@ def _distribution(d: Summary) -> dict[str, Any]:
     return {"mean": d.mean, "u": d.u, "coverage_95": list(d.coverage)}
 
 
-def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
+def _point(p: RegionPoint) -> dict[str, Any]:
+    return {"total_mol_per_l": p.concentration, "temperature_c": p.temperature, "background_ionic_strength": p.background, "error": p.error}
+
+
+def _decision(v: Verdict) -> dict[str, Any]:
+    r = v.region
+    return {
+        "rule": v.rule,
+        "findings": [str(f) for f in v.findings],
+        "limit": v.limit,
+        "required_probability": v.required_probability,
+        "conformity_probability": v.conformity,
+        "result_used": v.result_used,
+        "exact_ph": v.exact_ph,
+        "exact_u_inputs": v.exact_u,
+        "exact_interval_95": list(v.exact_interval),
+        "model_uncertainty": {"u": v.model.u, "ionic_strength": v.model.ionic_strength, "source": v.model.source},
+        "operating_region": {
+            "total_mol_per_l": list(r.concentration),
+            "temperature_c": list(r.temperature),
+            "background_ionic_strength": list(r.background),
+            "worst": _point(r.worst),
+            "corners": [_point(c) for c in r.corners],
+            "holds_mol_per_l": [list(h) for h in r.holds],
+        },
+    }
+
+
+def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis, method: Method) -> dict[str, Any]:
     v = s.validity
     out: dict[str, Any] = {
         "id": s.id,
@@ -108,12 +140,15 @@ def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
     }
     if s.claimed:
         mc = sa.monte_carlo
+        vd: Verdict = s.verdict  # type: ignore[assignment]
+        words = prose(method, sa, s)
         out.update(
             {
-                "verdict": s.verdict.status,  # type: ignore[union-attr]
-                "condition": s.verdict.condition,  # type: ignore[union-attr]
-                "reasons": list(s.verdict.reasons),  # type: ignore[union-attr]
-                "justification": s.justification,
+                "verdict": vd.status,
+                "condition": words.condition,
+                "reasons": list(words.reasons),
+                "justification": words.justification,
+                "decision": _decision(vd),
                 "gum": _gum(s.gum),  # type: ignore[arg-type]
                 "monte_carlo": {
                     "draws": mc.draws,
@@ -195,8 +230,8 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
             "monte_carlo": _distribution(sa.monte_carlo.exact),
             "gum_vs_monte_carlo": _comparison(sa.comparison),
         },
-        "approximations": [_shortcut(sa, s) for s in sa.shortcuts],
-        "appendix": [_shortcut(sa, s) for s in sa.appendix],
+        "approximations": [_shortcut(sa, s, analysis.method) for s in sa.shortcuts],
+        "appendix": [_shortcut(sa, s, analysis.method) for s in sa.appendix],
     }
 
 
