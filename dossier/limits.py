@@ -28,6 +28,7 @@ __all__ = [
     "MAX_STEPS",
     "ION_SIZE",
     "DAVIES_COEFFICIENT_RANGE",
+    "CO2_PARTIAL_PRESSURE",
     "PKA_UNCERTAINTY",
     "MAX_PH_ERROR",
     "PROBABILITY",
@@ -65,6 +66,9 @@ ION_SIZE = (0.5, 20.0)
 """Ion-size parameter å of the extended Debye–Hückel equation [Å]."""
 DAVIES_COEFFICIENT_RANGE = (0.0, 1.0)
 """Linear coefficient of the Davies equation [kg/mol]."""
+CO2_PARTIAL_PRESSURE = (0.0, 1.0)
+"""CO₂ partial pressure of an open solution [atm]: at most pure CO₂ at 1 atm,
+the pressure at which Henry's constant holds."""
 
 # ---------------------------------------------------------------- method files
 PKA_STATED = (-2.0, 16.0)
