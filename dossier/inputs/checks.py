@@ -14,7 +14,7 @@ import re
 from dataclasses import dataclass, field
 
 from .. import limits
-from ..chemistry import CATALOGUE, ActivityModelId, InputRangeError
+from ..chemistry import AIR_PARTIAL_PRESSURE_ATM, CATALOGUE, ActivityModelId, InputRangeError
 from ..chemistry.activity import thermodynamic_pka
 from ..chemistry.temperature import REFERENCE_TEMPERATURE, pka_at_temperature
 from ..problems import Problem, Severity
@@ -33,9 +33,9 @@ from .model import (
 from pydantic import ValidationError
 
 from .forms import FormError, protons_removed
-from .schema import ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
+from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
 from .substances import Substance, SubstanceTable
-from .units import UnitError, format_concentration, parse_concentration
+from .units import UnitError, format_concentration, parse_concentration, parse_pressure
 from .yamlpos import LoadedYaml
 
 __all__ = ["build_method", "CONCENTRATION_LIMITS"]
@@ -373,7 +373,7 @@ def check_valid_parts(path: str, data: dict, doc: LoadedYaml, table: SubstanceTa
         c = Conditions.model_validate(data.get("conditions", {}))
     except ValidationError:
         c = Conditions()
-    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
+    conditions = _conditions(None, c)
     refs = set()
     raw_refs = data.get("references", {})
     if isinstance(raw_refs, dict):
@@ -386,6 +386,41 @@ def check_valid_parts(path: str, data: dict, doc: LoadedYaml, table: SubstanceTa
             continue
     _check_solutions(ctx, indexed, refs, conditions, set())
     return ctx.problems
+
+
+def _conditions(ctx: _Ctx | None, c: Conditions) -> ConditionsSpec:
+    """The checked conditions; a CO₂ statement that cannot be read is reported (when ``ctx``) and taken as none."""
+    base = (c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
+    co2 = c.co2
+    if co2 == "none":
+        return ConditionsSpec(*base)
+    if co2 == "air":
+        return ConditionsSpec(*base, co2="open", co2_partial_pressure=AIR_PARTIAL_PRESSURE_ATM, co2_as_written="air")
+    if isinstance(co2, Co2Open):
+        try:
+            p = parse_pressure(co2.partial_pressure)
+        except UnitError as e:
+            if ctx:
+                ctx.add(("conditions", "co2", "partial_pressure"), str(e))
+            return ConditionsSpec(*base)
+        lo, hi = limits.CO2_PARTIAL_PRESSURE
+        if not lo <= p <= hi:
+            if ctx:
+                ctx.add(("conditions", "co2", "partial_pressure"), f"{co2.partial_pressure} is {p:g} atm; allowed {lo:g} … {hi:g} atm")
+            return ConditionsSpec(*base)
+        return ConditionsSpec(*base, co2="open", co2_partial_pressure=p, co2_as_written=f"partial_pressure: {co2.partial_pressure}")
+    try:
+        total = parse_concentration(co2.dissolved, temperature=c.temperature).mol_per_l
+    except UnitError as e:
+        if ctx:
+            ctx.add(("conditions", "co2", "dissolved"), str(e))
+        return ConditionsSpec(*base)
+    lo, hi = limits.CONCENTRATION
+    if not lo <= total <= hi:
+        if ctx:
+            ctx.add(("conditions", "co2", "dissolved"), f"{co2.dissolved} is {total:g} mol/L; allowed {lo:g} … {hi:g} mol/L")
+        return ConditionsSpec(*base)
+    return ConditionsSpec(*base, co2="closed", co2_total=total, co2_as_written=f"dissolved: {co2.dissolved}")
 
 
 _RESERVED_NAMES = re.compile(r"^(con|prn|aux|nul|com[0-9]|lpt[0-9])(\..*)?$", re.IGNORECASE)
@@ -421,7 +456,7 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     """
     ctx = _Ctx(path, doc, table)
     c = mf.conditions
-    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
+    conditions = _conditions(ctx, c)
     refs = set(mf.references)
     cited: set[str] = set()
     _check_ids(ctx, mf)

@@ -100,9 +100,22 @@ def _field_at(loc: Loc) -> FieldInfo | None:
     return info
 
 
+def _union_model_for(annotation: Any, data: Any) -> Any:
+    """For a union of several models (``co2: {partial_pressure: …} | {dissolved: …}``),
+    the one whose keys the data uses; otherwise the annotation unchanged."""
+    while typing.get_origin(annotation) is typing.Annotated:
+        annotation = typing.get_args(annotation)[0]
+    if not isinstance(data, dict) or typing.get_origin(annotation) not in (typing.Union, getattr(__import__("types"), "UnionType", None)):
+        return annotation
+    models = [a for a in typing.get_args(annotation) if isinstance(a, type) and issubclass(a, BaseModel)]
+    if len(models) < 2:
+        return annotation
+    return max(models, key=lambda m: sum(k in m.model_fields for k in data))
+
+
 def _strip_unknown(data: Any, model: Any, loc: Loc, doc: LoadedYaml, out: list[Problem], path: str) -> Any:
     """Drop keys the schema does not know, each with a warning (and a suggestion)."""
-    ann = _unwrap(model)
+    ann = _unwrap(_union_model_for(model, data))
     origin = typing.get_origin(ann)
     if isinstance(ann, type) and issubclass(ann, BaseModel) and isinstance(data, dict):
         cleaned = {}

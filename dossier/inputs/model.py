@@ -12,7 +12,7 @@ from enum import StrEnum
 
 import numpy as np
 
-from ..chemistry import Protolyte, Solution
+from ..chemistry import CarbonDioxide, Protolyte, Solution
 from .formulas import subscripted
 
 __all__ = [
@@ -152,13 +152,28 @@ class ComponentSpec:
 
 @dataclass(frozen=True)
 class ConditionsSpec:
-    """Temperature [°C] with its tolerance, activity model, background ionic strength [mol/kg] with its tolerance."""
+    """Temperature [°C] with its tolerance, activity model, background ionic strength [mol/kg] with its tolerance,
+    and carbon dioxide.
+
+    ``co2`` is the engine's mode (``none``, ``open``, ``closed``);
+    ``co2_partial_pressure`` [atm] for open, ``co2_total`` [mol/L] for closed;
+    ``co2_as_written`` what the method file says (``none``, ``air``,
+    ``partial_pressure: 1000 µatm``, ``dissolved: 0.05 mmol/L``).
+    """
 
     temperature: float
     temperature_tolerance: float
     activity: str
     background: float
     background_tolerance: float = 0.0
+    co2: str = "none"
+    co2_partial_pressure: float = 0.0
+    co2_total: float = 0.0
+    co2_as_written: str = "none"
+
+    def carbon_dioxide(self) -> CarbonDioxide:
+        """The engine's CO₂ condition."""
+        return CarbonDioxide(self.co2, partial_pressure=self.co2_partial_pressure, total=self.co2_total)
 
 
 @dataclass(frozen=True)

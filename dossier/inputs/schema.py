@@ -23,6 +23,8 @@ __all__ = [
     "MethodInfo",
     "Acceptance",
     "Conditions",
+    "Co2Open",
+    "Co2Closed",
     "SolutionIn",
     "ComponentIn",
     "PkaIn",
@@ -105,6 +107,22 @@ class Acceptance(_Model):
     )
 
 
+class Co2Open(_Model):
+    """Open to a gas at a stated CO₂ partial pressure."""
+
+    partial_pressure: str = Field(
+        min_length=1, max_length=100,
+        description="CO₂ partial pressure with its unit: µatm (or uatm), atm, Pa, kPa (e.g. '1000 µatm'); at most 1 atm.",
+        examples=["1000 µatm", "0.1 kPa"],
+    )
+
+
+class Co2Closed(_Model):
+    """Closed: a stated total of dissolved inorganic carbon added (as CO₂)."""
+
+    dissolved: ConcentrationText = Field(description="Total dissolved inorganic carbon added, with unit (e.g. '0.05 mmol/L').")
+
+
 class Conditions(_Model):
     """Conditions of use, common to every solution of the method."""
 
@@ -127,6 +145,13 @@ class Conditions(_Model):
     background_ionic_strength_tolerance: float = Field(
         0.0, ge=0.0, le=5.0, allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
         description="Half-width of the allowed background ionic strength (± value), rectangular distribution.",
+    )
+    co2: Literal["none", "air"] | Co2Open | Co2Closed = Field(
+        "none",
+        description=(
+            "Carbon dioxide: 'none' (CO₂-free water, the default), 'air' (open to air: 420 µatm, Henry's law at the working temperature), "
+            "{partial_pressure: 1000 µatm} (open at a stated partial pressure), or {dissolved: 0.05 mmol/L} (closed: this total dissolved inorganic carbon added)."
+        ),
     )
 
 
