@@ -169,6 +169,27 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
         },
         "approximations": [_shortcut(sa, s) for s in sa.shortcuts],
         "appendix": [_shortcut(sa, s) for s in sa.appendix],
+        **_co2(sa),
+    }
+
+
+def _co2(sa: SolutionAnalysis) -> dict[str, Any]:
+    """``co2`` (the condition as solved) and ``co2_open_to_air`` (when the method assumes none)."""
+    r = sa.co2
+    if r is None:
+        return {}
+    air = None
+    if r.mode == "none":
+        air = {"ph": r.ph_open_to_air, "shift": r.shift_open_to_air, "exceeds_acceptance_limit": r.exceeds_limit}
+    return {
+        "co2": {
+            "mode": r.mode,
+            "partial_pressure_atm": r.partial_pressure_atm,
+            "henry_mol_per_l_atm": r.henry_mol_per_l_atm,
+            "total_mol_per_l": r.total_mol_per_l,
+            "pka": list(r.pka) if r.pka is not None else None,
+        },
+        "co2_open_to_air": air,
     }
 
 

@@ -39,7 +39,10 @@ def verdicts(a) -> dict[str, str]:  # noqa: ANN001
     ("name", "expected"),
     [
         ("benzoate-extract", {"weak-acid-square-root": "pass"}),
-        ("boric-rinse", {"weak-acid-square-root": "conditional", "weak-acid-water-corrected": "pass"}),
+        # open to air (co2: air): carbonic acid, not boric acid, sets the pH of the rinse
+        ("boric-rinse", {"weak-acid-square-root": "fail", "weak-acid-water-corrected": "fail"}),
+        ("acetate-salt-diluent", {"conjugate-base-square-root": "fail"}),
+        ("ammonia-reagent", {"weak-base-square-root": "fail"}),
         ("formic-mobile-phase", {"weak-acid-square-root": "conditional", "weak-acid-quadratic": "pass"}),
         ("tris-buffer-37c", {"henderson-hasselbalch": "fail", "constants-at-25c": "fail"}),
         ("saline-phosphate-buffer", {"henderson-hasselbalch": "fail", "ideal-activity": "fail"}),
@@ -131,3 +134,27 @@ def test_figures_are_valid_deterministic_and_described() -> None:
         assert root.tag.endswith("svg")
         assert b"<dc:date>" not in f.svg
         assert len(f.alt) > 40 and f.caption
+
+
+def test_results_document_echoes_the_co2_condition() -> None:
+    # Open to air: 420 µatm, K_H and pK1/pK2 of Plummer & Busenberg (1982) at 20 °C.
+    doc = json.loads(json.dumps(results_document(demo("boric-rinse"), load_table().sha256)))
+    sol = doc["solutions"][0]
+    co2 = sol["co2"]
+    assert set(co2) == {"mode", "partial_pressure_atm", "henry_mol_per_l_atm", "total_mol_per_l", "pka"}
+    assert co2["mode"] == "open" and co2["partial_pressure_atm"] == pytest.approx(420e-6)
+    assert co2["henry_mol_per_l_atm"] == pytest.approx(10 ** -1.407, rel=0.01)  # log K_H(20 °C) = −1.407
+    assert co2["pka"] == pytest.approx([6.382, 10.376], abs=0.001)
+    assert co2["total_mol_per_l"] > co2["henry_mol_per_l_atm"] * co2["partial_pressure_atm"]
+    assert sol["co2_open_to_air"] is None
+    # Water near pH 5.6 open to air: the boric acid barely matters.
+    assert abs(sol["exact"]["ph"] - 5.6) < 0.06
+
+
+def test_results_document_gives_the_ph_open_to_air_when_co2_is_not_stated() -> None:
+    doc = json.loads(json.dumps(results_document(demo("benzoate-extract"), load_table().sha256)))
+    sol = doc["solutions"][0]
+    assert sol["co2"] == {"mode": "none", "partial_pressure_atm": None, "henry_mol_per_l_atm": None, "total_mol_per_l": None, "pka": None}
+    air = sol["co2_open_to_air"]
+    assert air["shift"] == pytest.approx(air["ph"] - sol["exact"]["ph"])
+    assert air["exceeds_acceptance_limit"] == (abs(air["shift"]) > doc["criteria"]["max_ph_error"])
