@@ -9,17 +9,19 @@ the nominal concentration, pKa order, shortcuts that exist and apply.
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import re
 from dataclasses import dataclass, field
 
 from .. import limits
-from ..chemistry import AIR_PARTIAL_PRESSURE_ATM, CATALOGUE, ActivityModelId, InputRangeError
+from ..chemistry import AIR_PARTIAL_PRESSURE_ATM, CATALOGUE, ActivityModelId, ConvergenceError, InputRangeError, Solution, titrant_for_ph
 from ..chemistry.activity import thermodynamic_pka
 from ..chemistry.temperature import REFERENCE_TEMPERATURE, pka_at_temperature
 from ..problems import Problem, Severity
 from .model import (
     METHOD_FILE,
+    AdjustmentSpec,
     TABLE,
     ComponentSpec,
     ConditionsSpec,
@@ -331,6 +333,11 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
     except InputRangeError as exc:
         ctx.add(loc, f"cannot be solved as given: {exc}")
         return None
+    if sol.adjusted_to is not None:
+        spec = _adjusted(ctx, loc + ("adjusted_to",), sol, spec, engine_solution, conditions)
+        if spec is None:
+            return None
+        engine_solution = spec.to_solution(conditions)
     ok = True
     for i, sid in enumerate(sol.shortcuts):
         why = CATALOGUE[sid].why_not(engine_solution)
@@ -338,6 +345,29 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
             ctx.add(loc + ("shortcuts", i), f"{sid} does not apply to this solution: {why}")
             ok = False
     return spec if ok else None
+
+
+def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution: Solution, conditions: ConditionsSpec) -> SolutionSpec | None:
+    """The solution with the exact amount of titrant that reaches ``adjusted_to.ph``."""
+    adj = sol.adjusted_to
+    assert adj is not None
+    stock = None
+    if adj.stock is not None:
+        stock = _concentration(ctx, loc + ("stock",), adj.stock, None, conditions.temperature)
+        if stock is None:
+            return None
+    try:
+        amount = float(titrant_for_ph(solution, adj.ph, adj.with_))
+    except (InputRangeError, ConvergenceError) as exc:
+        ctx.add(loc + ("ph",), f"cannot be reached: {exc.message if isinstance(exc, InputRangeError) else exc}")
+        return None
+    if stock is not None and amount > stock:
+        ctx.add(loc + ("stock",), f"the titrant needed ({format_concentration(amount)}) is more than the stock itself ({adj.stock}): no volume of it can deliver that")
+        return None
+    adjustment = AdjustmentSpec(adj.ph, adj.with_, amount, stock, adj.stock)
+    if adj.with_ == "strong-base":
+        return dataclasses.replace(spec, strong_base=spec.strong_base + amount, adjustment=adjustment)
+    return dataclasses.replace(spec, strong_acid=spec.strong_acid + amount, adjustment=adjustment)
 
 
 def _check_solutions(ctx: _Ctx, indexed: list[tuple[int, SolutionIn]], refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> list[SolutionSpec | None]:

@@ -19,6 +19,7 @@ __all__ = [
     "PkaValue",
     "ComponentSpec",
     "SolutionSpec",
+    "AdjustmentSpec",
     "ConditionsSpec",
     "Criteria",
     "Distribution",
@@ -185,8 +186,38 @@ class Criteria:
 
 
 @dataclass(frozen=True)
+class AdjustmentSpec:
+    """'Adjust to pH X with …' as checked: the target, the titrant and the exact amount added.
+
+    Attributes
+    ----------
+    target_ph : float
+        Target pH (activity scale).
+    titrant : str
+        ``strong-base`` or ``strong-acid``.
+    amount : float
+        Titrant added by the exact model [mol per litre of final solution];
+        already included in the solution's ``strong_base`` or ``strong_acid``.
+    stock : float or None
+        Stock concentration [mol/L], when stated.
+    stock_text : str or None
+        The stock as written.
+    """
+
+    target_ph: float
+    titrant: str
+    amount: float
+    stock: float | None = None
+    stock_text: str | None = None
+
+
+@dataclass(frozen=True)
 class SolutionSpec:
-    """One solution: its components, strong acid/base [mol/L] and claimed shortcuts."""
+    """One solution: its components, strong acid/base [mol/L] and claimed shortcuts.
+
+    With ``adjustment``, the strong acid or base already includes the titrant
+    the exact model adds to reach the target pH.
+    """
 
     id: str
     description: str
@@ -194,6 +225,7 @@ class SolutionSpec:
     strong_acid: float
     strong_base: float
     shortcuts: tuple[str, ...]
+    adjustment: AdjustmentSpec | None = None
 
     def same_substance(self, component: int) -> tuple[int, ...]:
         """Indices of every component that is the same substance as ``component``

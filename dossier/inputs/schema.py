@@ -26,6 +26,7 @@ __all__ = [
     "Co2Open",
     "Co2Closed",
     "SolutionIn",
+    "AdjustedTo",
     "ComponentIn",
     "PkaIn",
     "ReferenceIn",
@@ -225,6 +226,16 @@ class ComponentIn(_Model):
         return parse_form(v)
 
 
+class AdjustedTo(_Model):
+    """'Adjust to pH X with …': the titrant is added until the exact pH reaches the target."""
+
+    ph: float = Field(ge=0.0, le=14.0, allow_inf_nan=False, json_schema_extra=_unit("pH"), description="Target pH (activity scale, as a pH meter reads it).")
+    with_: Literal["strong-base", "strong-acid"] = Field(
+        alias="with", description="Titrant: strong-base (e.g. NaOH) or strong-acid (e.g. HCl), monovalent and fully dissociated.",
+    )
+    stock: ConcentrationText | None = Field(None, description="Concentration of the titrant stock, with unit, for the volume per litre (optional).")
+
+
 class SolutionIn(_Model):
     """One solution whose pH the SOP calculates."""
 
@@ -234,6 +245,10 @@ class SolutionIn(_Model):
     strong_acid: ConcentrationText | None = Field(None, description="Added strong acid (e.g. HCl), with unit.")
     strong_base: ConcentrationText | None = Field(None, description="Added strong base (e.g. NaOH), with unit.")
     shortcuts: list[str] = Field(min_length=1, max_length=12, description="Ids of the shortcuts the SOP relies on (see docs/calculations.md).")
+    adjusted_to: AdjustedTo | None = Field(
+        None,
+        description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",
+    )
 
 
 class ReferenceIn(_Model):

@@ -190,6 +190,27 @@ def _co2(sa: SolutionAnalysis) -> dict[str, Any]:
             "pka": list(r.pka) if r.pka is not None else None,
         },
         "co2_open_to_air": air,
+        **_adjustment(sa),
+    }
+
+
+def _adjustment(sa: SolutionAnalysis) -> dict[str, Any]:
+    """``adjustment`` (null without ``adjusted_to``) and ``adjustment_stock`` (null without a stock)."""
+    r = sa.adjustment
+    if r is None:
+        return {"adjustment": None, "adjustment_stock": None}
+    stock = None
+    if r.stock_mol_per_l is not None:
+        stock = {"stock_mol_per_l": r.stock_mol_per_l, "volume_ml_per_l": r.volume_ml_per_l, "shortcut_volume_ml_per_l": r.shortcut_volume_ml_per_l}
+    return {
+        "adjustment": {
+            "target_ph": r.target_ph,
+            "titrant": r.titrant,
+            "amount_mol_per_l": r.amount_mol_per_l,
+            "shortcut_amount_mol_per_l": r.shortcut_amount_mol_per_l,
+            "shortcut_recipe_ph": r.shortcut_recipe_ph,
+        },
+        "adjustment_stock": stock,
     }
 
 
