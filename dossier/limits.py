@@ -29,6 +29,7 @@ __all__ = [
     "ION_SIZE",
     "DAVIES_COEFFICIENT_RANGE",
     "CO2_PARTIAL_PRESSURE",
+    "TARGET_PH",
     "PKA_UNCERTAINTY",
     "MAX_PH_ERROR",
     "PROBABILITY",
@@ -69,6 +70,8 @@ DAVIES_COEFFICIENT_RANGE = (0.0, 1.0)
 CO2_PARTIAL_PRESSURE = (0.0, 1.0)
 """CO₂ partial pressure of an open solution [atm]: at most pure CO₂ at 1 atm,
 the pressure at which Henry's constant holds."""
+TARGET_PH = (0.0, 14.0)
+"""Target pH of ``adjusted_to`` in a method file [pH]."""
 
 # ---------------------------------------------------------------- method files
 PKA_STATED = (-2.0, 16.0)

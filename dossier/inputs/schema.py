@@ -12,6 +12,7 @@ from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, WithJsonSchema, field_validator
 
+from .. import limits
 from .forms import parse_form
 from .substances import SOURCE_KINDS
 from .units import TEMPERATURE_PATTERN, celsius, celsius_difference
@@ -229,7 +230,7 @@ class ComponentIn(_Model):
 class AdjustedTo(_Model):
     """'Adjust to pH X with …': the titrant is added until the exact pH reaches the target."""
 
-    ph: float = Field(ge=0.0, le=14.0, allow_inf_nan=False, json_schema_extra=_unit("pH"), description="Target pH (activity scale, as a pH meter reads it).")
+    ph: float = Field(ge=limits.TARGET_PH[0], le=limits.TARGET_PH[1], allow_inf_nan=False, json_schema_extra=_unit("pH"), description="Target pH (activity scale, as a pH meter reads it).")
     with_: Literal["strong-base", "strong-acid"] = Field(
         alias="with", description="Titrant: strong-base (e.g. NaOH) or strong-acid (e.g. HCl), monovalent and fully dissociated.",
     )
