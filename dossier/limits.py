@@ -28,6 +28,8 @@ __all__ = [
     "MAX_STEPS",
     "ION_SIZE",
     "DAVIES_COEFFICIENT_RANGE",
+    "CO2_PARTIAL_PRESSURE",
+    "TARGET_PH",
     "PKA_UNCERTAINTY",
     "MOLAR_MASS",
     "MAX_PH_ERROR",
@@ -68,6 +70,11 @@ ION_SIZE = (0.5, 20.0)
 """Ion-size parameter å of the extended Debye–Hückel equation [Å]."""
 DAVIES_COEFFICIENT_RANGE = (0.0, 1.0)
 """Linear coefficient of the Davies equation [kg/mol]."""
+CO2_PARTIAL_PRESSURE = (0.0, 1.0)
+"""CO₂ partial pressure of an open solution [atm]: at most pure CO₂ at 1 atm,
+the pressure at which Henry's constant holds."""
+TARGET_PH = (0.0, 14.0)
+"""Target pH of ``adjusted_to`` in a method file [pH]."""
 
 # ---------------------------------------------------------------- method files
 PKA_STATED = (-2.0, 16.0)

@@ -67,6 +67,7 @@ class MethodBuilder:
     activity_model: str = "ideal"
     background: float | None = None
     background_tolerance: float | None = None
+    co2: Any = None  # conditions.co2 as written: "none", "air", {"partial_pressure": ...}, {"dissolved": ...}
     solutions: tuple[dict[str, Any], ...] = ()
     references: dict[str, dict[str, Any]] = field(default_factory=dict)
 
@@ -93,6 +94,8 @@ class MethodBuilder:
             conditions["background_ionic_strength"] = self.background
         if self.background_tolerance is not None:
             conditions["background_ionic_strength_tolerance"] = self.background_tolerance
+        if self.co2 is not None:
+            conditions["co2"] = self.co2
         acceptance: dict[str, Any] = {"max_ph_error": self.limit}
         if self.probability is not None:
             acceptance["probability"] = self.probability

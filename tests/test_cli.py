@@ -59,7 +59,7 @@ def test_selected_shortcut_that_does_not_apply_is_reported() -> None:
         (("--pka", "4.756", "--conc", "1 mmol/L", "--form", "3"), "dossier solve: --form: protons removed must be 0 … 1 for a substance with 1 ionization step(s); got 3"),
         (("--pka", "nan", "--conc", "1 mmol/L"), "dossier solve: --pka[0]: must be a finite number in -5 … 20; got nan"),
         (("--pka", "4.756", "--conc", "250 mg/L"), "dossier solve: --conc: '250 mg/L' is a mass concentration: state the molar mass (g/mol) to convert it"),
-        (("--pka", "4.756", "--conc", "1 mmol/L", "--shortcut", "magic"), "dossier solve: --shortcut: unknown id 'magic'; known: weak-acid-square-root, weak-acid-quadratic, weak-acid-water-corrected, weak-base-square-root, weak-base-quadratic, conjugate-base-square-root, henderson-hasselbalch, ampholyte-mean, first-step-only, ideal-activity, constants-at-25c"),
+        (("--pka", "4.756", "--conc", "1 mmol/L", "--shortcut", "magic"), "dossier solve: --shortcut: unknown id 'magic'; known: weak-acid-square-root, weak-acid-quadratic, weak-acid-water-corrected, weak-base-square-root, weak-base-quadratic, conjugate-base-square-root, henderson-hasselbalch, ampholyte-mean, strong-acid, strong-acid-water-corrected, strong-base, strong-base-water-corrected, weak-acid-weak-base-salt, henderson-hasselbalch-two-substances, first-step-only, ideal-activity, constants-at-25c"),
     ],
 )
 def test_bad_values_exit_1_with_one_clear_line(args: tuple[str, ...], message: str) -> None:

@@ -15,6 +15,8 @@ from dataclasses import dataclass
 
 from ..chemistry import CATALOGUE, applicable, debye_huckel_a, equilibrium
 from ..inputs.model import Method, SolutionSpec
+from .adjustment import AdjustmentResult, adjustment_result
+from .co2 import Co2Result, co2_result
 from .maps import ErrorMap, PkaCurves, error_map, pka_curves
 from .decision import ModelUncertainty, model_uncertainty
 from .montecarlo import DEFAULT_DRAWS, Comparison, McResult, compare, monte_carlo
@@ -93,6 +95,8 @@ class SolutionAnalysis:
     shortcuts: tuple[ShortcutAnalysis, ...]
     appendix: tuple[ShortcutAnalysis, ...]
     model: ModelUncertainty
+    co2: Co2Result | None = None
+    adjustment: AdjustmentResult | None = None
 
 
 @dataclass(frozen=True)
@@ -142,7 +146,8 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
             continue
         v = validity(approx.id, spec, c, limit)
         appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None))
-    return SolutionAnalysis(spec, exact, gum_exact, mc, exact_cmp, tuple(shortcuts), tuple(appendix), model)
+    co2 = co2_result(nominal, eq, c.co2_as_written, limit)
+    return SolutionAnalysis(spec, exact, gum_exact, mc, exact_cmp, tuple(shortcuts), tuple(appendix), model, co2=co2, adjustment=adjustment_result(spec, c))
 
 
 def analyse_method(method: Method, settings: AnalysisSettings | None = None, *, progress: Callable[[str], None] | None = None) -> MethodAnalysis:

@@ -9,13 +9,21 @@ from .activity import MODELS as ACTIVITY_MODELS
 from .approximations import CATALOGUE, Approximation, Constants, NotApplicable, StatedConstants, applicable, approximation, working_constants
 from .activity import ActivityModel, ActivityModelId, activity_model, conditional_pka, log_gamma, log_gamma_unit, thermodynamic_pka
 from .errors import ChemistryError, ConvergenceError, InputRangeError
-from .solver import Equilibrium, equilibrium
-from .species import Component, Protolyte, Solution
+from .carbonate import AIR_PARTIAL_PRESSURE_ATM, carbonic_pka, log_henry
+from .solver import CarbonateState, Equilibrium, buffer_capacity, equilibrium, titrant_for_ph
+from .species import CarbonDioxide, Component, Protolyte, Solution
 from .temperature import pka_at_temperature
 from .water import debye_huckel_a, debye_huckel_b, pkw, pkw_iapws, relative_permittivity, water_density
 
 __all__ = [
     "CATALOGUE",
+    "AIR_PARTIAL_PRESSURE_ATM",
+    "CarbonDioxide",
+    "CarbonateState",
+    "buffer_capacity",
+    "carbonic_pka",
+    "log_henry",
+    "titrant_for_ph",
     "Approximation",
     "Constants",
     "StatedConstants",

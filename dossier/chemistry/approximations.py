@@ -14,8 +14,9 @@ constants hold at another temperature is also a shortcut of its own
 (``constants-at-25c``).
 
 Each shortcut knows which of the first component's steps its equation uses
-(``steps``; the *key step* is the one a pKa sweep varies) and whether pKw
-enters it (``uses_pkw``).
+(``steps``; the *key step* is the one a pKa sweep varies, and may belong to
+another component for a mixture of two substances; None for the strong acid
+and base formulas, which use no pKa) and whether pKw enters it (``uses_pkw``).
 
 Symbols: C total concentration of the (single) component [mol/L]; Ka, Kb the
 acid and base constants of the step involved, Kb = Kw/Ka; h = [H⁺].
@@ -30,6 +31,9 @@ References
    Equilibrium Problems for Complex Systems".
 .. [3] L. J. Henderson, Am. J. Physiol. 21, 173–179 (1908);
    K. A. Hasselbalch, Biochem. Z. 78, 112–144 (1916).
+.. [4] J. N. Butler, Ionic Equilibrium: Solubility and pH Calculations
+   (Wiley, 1998), ch. 3 (salts of a weak acid and a weak base; strong acids
+   and bases with water's own ions).
 """
 
 from __future__ import annotations
@@ -50,6 +54,7 @@ __all__ = [
     "Constants",
     "StatedConstants",
     "buffer_pair",
+    "donor_acceptor",
     "CATALOGUE",
     "NotApplicable",
     "approximation",
@@ -229,6 +234,73 @@ def _hh_applies(s: Solution) -> str | None:
     return "needs an acid and its conjugate base: two forms of one substance differing by one proton, or one form partly neutralized by strong acid or base"
 
 
+def _strong_only(kind: str) -> Callable[[Solution], str | None]:
+    """Only a strong acid (kind 'acid') or only a strong base ('base'), no weak component."""
+
+    def test(s: Solution) -> str | None:
+        if s.components:
+            return f"the solution holds weak acid–base components ({len(s.components)}), not only a strong {kind}"
+        mine, other = (s.strong_acid, s.strong_base) if kind == "acid" else (s.strong_base, s.strong_acid)
+        if np.any(_np(other) > 0):
+            return "the solution holds both strong acid and strong base"
+        if np.any(_np(mine) <= 0):
+            return f"the solution holds no strong {kind}, where a formula in log C has no value"
+        return None
+
+    return test
+
+
+def donor_acceptor(s: Solution) -> tuple[int, int] | str:
+    """(proton donor, proton acceptor) components of a mixture of two substances,
+    or the reason in words why the solution is not one.
+
+    The donor is added in a form that can lose a proton (removed < steps), the
+    acceptor in one that can take one up (removed > 0); the two must be
+    different substances and the assignment unambiguous.
+    """
+    if len(s.components) != 2:
+        return f"needs exactly two acid–base components (the solution has {len(s.components)})"
+    c0, c1 = s.components
+    if c0.protolyte.is_same_substance(c1.protolyte):
+        return "the two components are forms of one substance (a conjugate pair: use henderson-hasselbalch)"
+    why = _no_strong(s)
+    if why:
+        return why
+    options = [(i, j) for i, j in ((0, 1), (1, 0)) if s.components[i].removed < s.components[i].protolyte.steps and s.components[j].removed > 0]
+    if not options:
+        return "neither component is added in a form that gives a proton to the other"
+    if len(options) == 2:
+        return "both components are added in amphiprotic forms: which one is the acid is ambiguous"
+    return options[0]
+
+
+def _equal_totals(s: Solution, i: int, j: int) -> np.ndarray:
+    a, b = _np(s.components[i].total), _np(s.components[j].total)
+    return np.abs(a - b) <= 1e-9 * np.maximum(a, b)
+
+
+def _salt_applies(s: Solution) -> str | None:
+    pair = donor_acceptor(s)
+    if isinstance(pair, str):
+        return pair
+    if not np.all(_equal_totals(s, *pair)):
+        return "the acid and the base are not in equal amounts (the salt formula holds for the 1:1 salt)"
+    return None
+
+
+def _cross_hh_applies(s: Solution) -> str | None:
+    pair = donor_acceptor(s)
+    if isinstance(pair, str):
+        return pair
+    equal = _equal_totals(s, *pair)
+    if np.any(equal):
+        return "the acid and the base are in equal amounts: no conjugate pair is left over (use weak-acid-weak-base-salt)"
+    a, b = _np(s.components[pair[0]].total), _np(s.components[pair[1]].total)
+    if np.any(a > b) and np.any(a < b):
+        return "the acid is in excess at some points and the base at others"
+    return None
+
+
 def _first_step_applies(s: Solution) -> str | None:
     poly = [c for c in s.components if c.protolyte.steps > 1]
     if not poly:
@@ -279,7 +351,66 @@ def _hh_step(s: Solution) -> int:
     return c.removed if np.any(_np(s.strong_base) > 0) else c.removed - 1
 
 
+def _salt_steps(s: Solution) -> tuple[tuple[int, int], tuple[int, int]]:
+    """((component, step) of the acid's pKa, (component, step) of the base's conjugate acid's pKa)."""
+    i, j = donor_acceptor(s)  # type: ignore[misc]
+    return (i, s.components[i].removed), (j, s.components[j].removed - 1)
+
+
+def _first_component_steps(pairs: tuple[tuple[int, int], ...]) -> tuple[int, ...]:
+    return tuple(sorted({step for comp, step in pairs if comp == 0}))
+
+
+def _cross_key(s: Solution) -> tuple[int, int]:
+    """The pair left over: the acid's when it is in excess, else the base's conjugate."""
+    acid, base = _salt_steps(s)
+    i, j = acid[0], base[0]
+    return acid if np.all(_np(s.components[i].total) > _np(s.components[j].total)) else base
+
+
+def _no_pka(s: Solution) -> tuple[int, ...]:
+    return ()
+
+
 # ---------------------------------------------------------------- pH formulas
+def _ph_strong_acid(s: Solution, k: Constants) -> Number:
+    return _out(-np.log10(_np(s.strong_acid)))
+
+
+def _oh_or_h_water(c: np.ndarray, pkw: np.ndarray) -> np.ndarray:
+    """[H⁺] (or [OH⁻]) of a strong acid (base) with water: C/2 + √(C²/4 + Kw) = (C + √(C² + 4Kw))/2."""
+    return 0.5 * (c + np.sqrt(c * c + 4.0 * 10.0**-pkw))
+
+
+def _ph_strong_acid_water(s: Solution, k: Constants) -> Number:
+    return _out(-np.log10(_oh_or_h_water(_np(s.strong_acid), _np(k.pkw))))
+
+
+def _ph_strong_base(s: Solution, k: Constants) -> Number:
+    return _out(_np(k.pkw) + np.log10(_np(s.strong_base)))
+
+
+def _ph_strong_base_water(s: Solution, k: Constants) -> Number:
+    pkw = _np(k.pkw)
+    return _out(pkw + np.log10(_oh_or_h_water(_np(s.strong_base), pkw)))
+
+
+def _ph_salt(s: Solution, k: Constants) -> Number:
+    (i, a), (j, b) = _salt_steps(s)
+    return _out(0.5 * (_np(k.pka[i][a]) + _np(k.pka[j][b])))
+
+
+def _ph_cross_hh(s: Solution, k: Constants) -> Number:
+    acid, base = _salt_steps(s)
+    ca, cb = _np(s.components[acid[0]].total), _np(s.components[base[0]].total)
+    comp, step = _cross_key(s)
+    pka = _np(k.pka[comp][step])
+    if comp == acid[0]:  # HA left over, A⁻ made from it by the base: pH = pKa + log(C_B / (C_HA − C_B))
+        return _out(pka + np.log10(cb) - np.log10(ca - cb))
+    return _out(pka + np.log10(cb - ca) - np.log10(ca))  # B left over, BH⁺ made from it by the acid
+
+
+
 def _weak_acid_parts(s: Solution, k: Constants) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     return _np(k.pka[0][0]), _np(s.components[0].total), _np(k.pkw)
 
@@ -424,7 +555,7 @@ class Approximation:
     _why_not: Callable[[Solution], str | None]
     _ph: Callable[[Solution, Constants], Number]
     _steps: Callable[[Solution], tuple[int, ...]]
-    _key_step: Callable[[Solution], int]
+    _key_step: Callable[[Solution], int | tuple[int, int] | None]
     formula: bool = True
     uses_pkw: bool = False
     partials: tuple[tuple[str, Callable[[Solution, Constants], Number]], ...] = ()
@@ -433,10 +564,13 @@ class Approximation:
         """Steps (0-based) of the first component whose pKa the equation uses."""
         return self._steps(solution)
 
-    def key_step(self, solution: Solution) -> tuple[int, int]:
+    def key_step(self, solution: Solution) -> tuple[int, int] | None:
         """(component, step) of the pKa the shortcut turns on: the one a pKa
-        sweep varies and the named ∂/∂pKa differentiates (0-based)."""
-        return (0, self._key_step(solution))
+        sweep varies and the named ∂/∂pKa differentiates (0-based). A mixture
+        shortcut may name another component than the first; a shortcut that
+        uses no pKa (strong acid or base alone) returns None."""
+        key = self._key_step(solution)
+        return key if key is None or isinstance(key, tuple) else (0, key)
 
     def constants_used(self, solution: Solution, stated: StatedConstants | None = None) -> tuple[tuple[Number | None, ...], Number | None]:
         """The values put into the equation: (first component's pKa per step,
@@ -665,6 +799,91 @@ CATALOGUE: dict[str, Approximation] = {
             _ph_ampholyte,
             _ampholyte_steps,
             lambda s: s.components[0].removed - 1,
+        ),
+        Approximation(
+            "strong-acid",
+            "Strong acid: pH from its concentration",
+            r"\mathrm{pH} = -\log_{10} C_a",
+            ("the acid is fully dissociated", "water contributes no H⁺", "activities equal concentrations"),
+            "a solution of a strong acid alone (e.g. hydrochloric acid)",
+            _T,
+            _strong_only("acid"),
+            _ph_strong_acid,
+            _no_pka,
+            lambda s: None,
+        ),
+        Approximation(
+            "strong-acid-water-corrected",
+            "Strong acid with water's own H⁺",
+            r"[\mathrm{H^+}] = \frac{C_a}{2} + \sqrt{\frac{C_a^2}{4} + K_w}",
+            ("the acid is fully dissociated", "activities equal concentrations"),
+            "a solution of a strong acid alone, also very dilute (below about 1 µmol/L)",
+            _T,
+            _strong_only("acid"),
+            _ph_strong_acid_water,
+            _no_pka,
+            lambda s: None,
+            uses_pkw=True,
+        ),
+        Approximation(
+            "strong-base",
+            "Strong base: pOH from its concentration",
+            r"\mathrm{pH} = \mathrm{p}K_w + \log_{10} C_b",
+            ("the base is fully dissociated", "water contributes no OH⁻", "activities equal concentrations"),
+            "a solution of a strong base alone (e.g. sodium hydroxide)",
+            _T,
+            _strong_only("base"),
+            _ph_strong_base,
+            _no_pka,
+            lambda s: None,
+            uses_pkw=True,
+        ),
+        Approximation(
+            "strong-base-water-corrected",
+            "Strong base with water's own OH⁻",
+            r"[\mathrm{OH^-}] = \frac{C_b}{2} + \sqrt{\frac{C_b^2}{4} + K_w}",
+            ("the base is fully dissociated", "activities equal concentrations"),
+            "a solution of a strong base alone, also very dilute (below about 1 µmol/L)",
+            _T,
+            _strong_only("base"),
+            _ph_strong_base_water,
+            _no_pka,
+            lambda s: None,
+            uses_pkw=True,
+        ),
+        Approximation(
+            "weak-acid-weak-base-salt",
+            "Salt of a weak acid and a weak base",
+            r"\mathrm{pH} = \frac{1}{2}\left(\mathrm{p}K_{a,\mathrm{HA}} + \mathrm{p}K_{a,\mathrm{BH^+}}\right)",
+            (
+                "equal amounts of the acid and the base (the 1:1 salt, e.g. ammonium acetate)",
+                "the concentration is large compared with Ka,HA and with Kw/Ka,BH⁺: the proton transfer between them sets the pH, not water",
+                "activities equal concentrations",
+            ),
+            "equal amounts of a weak acid and a weak base of two different substances, e.g. ammonium acetate or ammonium formate",
+            "J. N. Butler, Ionic Equilibrium (Wiley, 1998), ch. 3; D. A. Skoog et al., Fundamentals of Analytical Chemistry, 9th ed. (2014)",
+            _salt_applies,
+            _ph_salt,
+            lambda s: _first_component_steps(_salt_steps(s)),
+            lambda s: _salt_steps(s)[0],
+        ),
+        Approximation(
+            "henderson-hasselbalch-two-substances",
+            "Henderson–Hasselbalch equation with the conjugate made by another substance",
+            r"\mathrm{pH} = \mathrm{p}K_{a,\mathrm{HA}} + \log_{10}\frac{C_\mathrm{B}}{C_\mathrm{HA} - C_\mathrm{B}}"
+            r"\quad\text{or}\quad \mathrm{p}K_{a,\mathrm{BH^+}} + \log_{10}\frac{C_\mathrm{B} - C_\mathrm{HA}}{C_\mathrm{HA}}",
+            (
+                "the smaller of the two reacts completely with the other (proton transfer complete)",
+                "the pair left over keeps its analytical concentrations (no dissociation or hydrolysis)",
+                "water contributes neither H⁺ nor OH⁻",
+                "activities equal concentrations",
+            ),
+            "a weak acid partly neutralized by a weak base of another substance, or a weak base partly neutralized by a weak acid (e.g. acetic acid with TRIS)",
+            "L. J. Henderson, Am. J. Physiol. 21, 173 (1908); K. A. Hasselbalch, Biochem. Z. 78, 112 (1916); J. N. Butler, Ionic Equilibrium (1998), ch. 3",
+            _cross_hh_applies,
+            _ph_cross_hh,
+            lambda s: _first_component_steps((_cross_key(s),)),
+            _cross_key,
         ),
         Approximation(
             "first-step-only",

@@ -32,6 +32,18 @@ With an activity model, log γ_z = z² f(I) and
     I = I_{bg} + \tfrac12\Bigl(h + \frac{K_w'}{h} + C_a + C_b
         + \sum_k C_k\bigl(|z_{k0} - r_k| + \sum_j \alpha_{kj}(z_{k0} - j)^2\bigr)\Bigr)
 
+Carbon dioxide (see :mod:`dossier.chemistry.carbonate`) enters through one
+hook. *Closed*: a total C_T of H₂CO₃* added, i.e. one more component
+(removed = 0, charge 0, pK₁ and pK₂ of Plummer & Busenberg at the
+temperature). *Open*: the dissolved s = [H₂CO₃*] = K_H p_CO₂ is fixed, so its
+ions enter the balance unnormalized,
+
+.. math::
+    N(h) \mathrel{+}= \frac{sK_1'}{h} + \frac{2sK_1'K_2'}{h^2},\qquad
+    \frac{dN}{d\ln h} \mathrel{+}= -\frac{sK_1'}{h} - \frac{4sK_1'K_2'}{h^2}
+
+and the upper bracket becomes h_hi = ½(a + √(a² + 4(K_w' + sK_1'))) + (2sK_1'K_2')^{1/3}.
+
 The ionic strength is the root of ψ(I) = I(h(I)) − I, found per point by a
 secant iteration kept inside a bracket [0, I_max]; each step re-solves the
 charge balance from the previous h.
@@ -52,15 +64,16 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.typing import NDArray
+from numpy.typing import ArrayLike, NDArray
 
 from .activity import BATES_GUGGENHEIM_BA, ActivityModelId, activity_model
-from .errors import ConvergenceError
+from .carbonate import carbonic_pka, log_henry
+from .errors import ConvergenceError, InputRangeError
 from .species import Number, Solution
 from .water import debye_huckel_a, debye_huckel_b
 from .water import pkw as pkw_iapws_01mpa
 
-__all__ = ["Equilibrium", "equilibrium", "TOLERANCE"]
+__all__ = ["Equilibrium", "CarbonateState", "equilibrium", "buffer_capacity", "titrant_for_ph", "TOLERANCE"]
 
 LN10 = float(np.log(10.0))
 TOLERANCE = 1e-12
@@ -70,6 +83,39 @@ _MAX_OUTER = 150
 _SECANT_STEPS = 40
 I_CEILING = 1000.0
 """Largest ionic strength the iteration searches [mol/kg], far beyond any activity model's range."""
+
+
+@dataclass(frozen=True, eq=False)
+class CarbonateState:
+    """The carbonic acid system of a solved equilibrium (mode open or closed).
+
+    Every numeric field is a float or an array of the solution's shape.
+
+    Attributes
+    ----------
+    mode : str
+        ``open`` or ``closed`` (see :class:`~dossier.chemistry.species.CarbonDioxide`).
+    partial_pressure_atm : float or array or None
+        CO₂ partial pressure [atm] (open), None (closed).
+    henry_mol_per_l_atm : float or array or None
+        Henry's constant K_H at the temperature [mol/(L·atm)] (open), None (closed).
+    dissolved_co2, bicarbonate, carbonate : float or array
+        [H₂CO₃*], [HCO₃⁻], [CO₃²⁻] [mol/L].
+    total : float or array
+        Dissolved inorganic carbon C_T, the sum of the three [mol/L].
+    pk1, pk2 : float or array
+        Thermodynamic pK₁, pK₂ at the temperature (Plummer & Busenberg 1982).
+    """
+
+    mode: str
+    partial_pressure_atm: Number | None
+    henry_mol_per_l_atm: Number | None
+    dissolved_co2: Number
+    bicarbonate: Number
+    carbonate: Number
+    total: Number
+    pk1: Number
+    pk2: Number
 
 
 @dataclass(frozen=True, eq=False)
@@ -99,6 +145,8 @@ class Equilibrium:
         Thermodynamic pKw used at the solution's temperature.
     log_gamma : float or array
         log10 γ of a monovalent ion at the final ionic strength (0 if ideal).
+    carbonate : CarbonateState or None
+        The carbonic acid system; None when the solution's CO₂ mode is none.
     """
 
     ph: Number
@@ -109,6 +157,7 @@ class Equilibrium:
     iterations: int
     pkw: Number
     log_gamma: Number
+    carbonate: CarbonateState | None = None
 
 
 # ---------------------------------------------------------------- kernels
@@ -120,9 +169,10 @@ class _Comp:
     log_k: list[NDArray[np.float64]]  # thermodynamic log10 K per step
     removed: int
     charge: int  # of the fully protonated form
+    fixed: bool = False  # open gas: ``total`` is the fixed concentration of the neutral form
 
     def take(self, sel: NDArray[np.intp]) -> _Comp:
-        return _Comp(_take(self.total, sel), [_take(v, sel) for v in self.log_k], self.removed, self.charge)
+        return _Comp(_take(self.total, sel), [_take(v, sel) for v in self.log_k], self.removed, self.charge, self.fixed)
 
 
 def _take(a: NDArray[np.float64], sel: NDArray[np.intp]) -> NDArray[np.float64]:
@@ -136,6 +186,14 @@ def _fractions(k: list[NDArray[np.float64]], inv_h: NDArray[np.float64]) -> list
         d.append(d[-1] * (kj * inv_h))
     alpha0 = 1.0 / (1.0 + sum(d))
     return [alpha0] + [dj * alpha0 for dj in d]
+
+
+def _ratios(k: list[NDArray[np.float64]], inv_h: NDArray[np.float64]) -> list[NDArray[np.float64]]:
+    """D_j / D_0 for a species held at a fixed concentration of state 0 (open CO₂)."""
+    d = [np.ones_like(inv_h), k[0] * inv_h]
+    for kj in k[1:]:
+        d.append(d[-1] * (kj * inv_h))
+    return d
 
 
 def _is_zero(a: NDArray[np.float64]) -> bool:
@@ -153,9 +211,10 @@ def _balance(x, kw, comps_k, comps, ca, cb):  # noqa: ANN001, ANN202 - hot kerne
     dn = -oh
     alphas = []
     for comp, k in zip(comps, comps_k):
-        a = _fractions(k, inv_h)
+        # An open gas's ions scale with 1/h^j at fixed state 0: d ln D_j / d ln h = −j, i.e. r̄ = 0.
+        a = _ratios(k, inv_h) if comp.fixed else _fractions(k, inv_h)
         alphas.append(a)
-        rbar = a[1] if len(a) == 2 else sum(j * aj for j, aj in enumerate(a) if j)
+        rbar = 0.0 if comp.fixed else a[1] if len(a) == 2 else sum(j * aj for j, aj in enumerate(a) if j)
         r = comp.removed
         for j, aj in enumerate(a):
             if j == r:
@@ -172,15 +231,27 @@ def _balance(x, kw, comps_k, comps, ca, cb):  # noqa: ANN001, ANN202 - hot kerne
     return g, dg, p, n, alphas
 
 
+def _h_upper(a, kw, comps, comps_k):  # noqa: ANN001, ANN202
+    """An upper bound on h at the root (module docstring), with the open-gas terms."""
+    q = kw
+    extra = 0.0
+    for comp, k in zip(comps, comps_k):
+        if comp.fixed:  # s K1/h and 2 s K1 K2/h² on the N side
+            q = q + comp.total * k[0]
+            if len(k) > 1:
+                extra = extra + np.cbrt(2.0 * comp.total * k[0] * k[1])
+    return 0.5 * (a + np.sqrt(a * a + 4.0 * q)) + extra
+
+
 def _solve_h(x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
     """Safeguarded Newton on G(ln h) = 0 for all points; returns (x, iterations, failed)."""
-    a = ca + sum(c.total * (len(c.log_k) - c.removed) for c in comps)
-    b = cb + sum(c.total * c.removed for c in comps)
+    a = ca + sum(c.total * (len(c.log_k) - c.removed) for c in comps if not c.fixed)
+    b = cb + sum(c.total * c.removed for c in comps if not c.fixed)
     m = x0.shape[0]
     kw_full = np.broadcast_to(kw, (m,))
     a = np.broadcast_to(a, (m,))
     b = np.broadcast_to(b, (m,))
-    hi = np.log(0.5 * (a + np.sqrt(a * a + 4.0 * kw_full))) + 1e-9
+    hi = np.log(_h_upper(a, kw_full, comps, comps_k)) + 1e-9
     lo = np.log(2.0 * kw_full / (b + np.sqrt(b * b + 4.0 * kw_full))) - 1e-9
     x = np.where(np.isfinite(x0), x0, 0.5 * (lo + hi))
     x = np.clip(x, lo, hi)
@@ -279,6 +350,14 @@ def _prepare(solution: Solution, shape: tuple[int, ...]) -> _Block:
     for comp in solution.components:
         log_k = [_flat(-np.asarray(pk), shape) for pk in comp.protolyte.pka_at(t)]
         comps.append(_Comp(_flat(comp.total, shape), log_k, comp.removed, comp.protolyte.charge))
+    co2 = solution.co2
+    if co2.mode != "none":  # the carbon dioxide hook: always the last component
+        log_k = [_flat(-np.asarray(pk), shape) for pk in carbonic_pka(t)]
+        if co2.mode == "open":
+            s = np.power(10.0, np.asarray(log_henry(t))) * np.asarray(co2.partial_pressure)
+            comps.append(_Comp(_flat(s, shape), log_k, 0, 0, fixed=True))
+        else:
+            comps.append(_Comp(_flat(co2.total, shape), log_k, 0, 0))
     if solution.activity == ActivityModelId.IDEAL:
         a_dh, ba = np.asarray(0.0), np.asarray(0.0)
     else:
@@ -379,6 +458,8 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
     ionic = np.empty(size)
     residual = np.empty(size)
     fractions = [np.empty((c.protolyte.steps + 1, size)) for c in solution.components]
+    has_co2 = solution.co2.mode != "none"
+    co2_species = np.empty((3, size)) if has_co2 else None
     iterations = 0
     # Overflow at trial points far from the root is expected and handled by the brackets.
     with np.errstate(over="ignore", invalid="ignore", divide="ignore", under="ignore"):
@@ -407,6 +488,9 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
             for dest, a in zip(fractions, alphas):
                 for j, aj in enumerate(a):
                     dest[j, sl] = aj
+            if co2_species is not None:
+                for j, aj in enumerate(alphas[-1]):
+                    co2_species[j, sl] = comps[-1].total * aj
     if not (np.all(np.isfinite(ph)) and np.all(np.isfinite(ionic))):
         bad = ~(np.isfinite(ph) & np.isfinite(ionic))
         _raise_unconverged(solution, int(np.flatnonzero(bad)[0]), int(bad.sum()), "the solve (a value overflowed)")
@@ -422,6 +506,7 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
         fractions[i] = fr.reshape((fr.shape[0],) + shape)
         fractions[i].setflags(write=False)
     pkw_used = np.broadcast_to(-block.log_kw, (size,)).copy()
+    carbonate = _carbonate_state(solution, co2_species, shaped) if co2_species is not None else None
     return Equilibrium(
         ph=shaped(ph),
         ph_conc=shaped(ph_conc),
@@ -431,6 +516,29 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
         iterations=int(iterations),
         pkw=shaped(pkw_used),
         log_gamma=shaped(log_gamma1),
+        carbonate=carbonate,
+    )
+
+
+def _carbonate_state(solution: Solution, species: NDArray[np.float64], shaped) -> CarbonateState:  # noqa: ANN001
+    t = solution.temperature
+
+    def full(v: Number) -> Number:
+        return shaped(np.broadcast_to(np.asarray(v, dtype=np.float64), solution.shape).reshape(-1).copy()) if solution.shape else float(v)
+
+    pk1, pk2 = carbonic_pka(t)
+    co2 = solution.co2
+    is_open = co2.mode == "open"
+    return CarbonateState(
+        mode=co2.mode,
+        partial_pressure_atm=full(co2.partial_pressure) if is_open else None,
+        henry_mol_per_l_atm=full(np.power(10.0, np.asarray(log_henry(t)))) if is_open else None,
+        dissolved_co2=shaped(species[0]),
+        bicarbonate=shaped(species[1]),
+        carbonate=shaped(species[2]),
+        total=shaped(species.sum(axis=0)),
+        pk1=full(pk1),
+        pk2=full(pk2),
     )
 
 
@@ -448,15 +556,27 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
     # Bounds on the ionic strength: every species in its most highly charged state ...
     i_max = block.background + 0.5 * (4.0 * (block.ca + block.cb) + 2.0e-6)
     for c in block.comps:
+        if c.fixed:
+            continue
         zmax = max(abs(c.charge - j) for j in range(len(c.log_k) + 1))
         i_max = i_max + 0.5 * c.total * (abs(c.charge - c.removed) + zmax**2 + 4.0 * len(c.log_k))
     i_max = np.broadcast_to(i_max, (m,)).astype(np.float64)
     # ... plus water at the conditional ion product reached at that bound.
     i_max = i_max + 2.0 * np.sqrt(np.power(10.0, block.log_kw - 2.0 * log_gamma(block, np.minimum(i_max, I_CEILING))))
+    if any(c.fixed for c in block.comps):
+        # Open gas: its ions' charge equals, at the root, at most P = h + C_b + Σ C r,
+        # and their ionic strength at most twice that (|z| ≤ 2).
+        f_b = log_gamma(block, np.minimum(i_max, I_CEILING))
+        kw_b, ks_b = _conditional(block.log_kw, block.comps, f_b)
+        a_b = block.ca + sum(c.total * (len(c.log_k) - c.removed) for c in block.comps if not c.fixed)
+        b_b = block.cb + sum(c.total * c.removed for c in block.comps if not c.fixed)
+        i_max = i_max + 2.0 * (b_b + _h_upper(a_b, kw_b, block.comps, ks_b))
 
     # Start from the ionic strength of the forms as added.
     i_now = block.background + 0.5 * (block.ca + block.cb)
     for c in block.comps:
+        if c.fixed:
+            continue
         q = abs(c.charge - c.removed)
         i_now = i_now + 0.5 * c.total * (q + q * q)
     i_now = np.broadcast_to(i_now + 1e-7, (m,)).astype(np.float64)
@@ -519,3 +639,157 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
     bad = np.zeros(m, dtype=bool)
     bad[pos] = True
     return x_all, f_all, total_iterations, bad, "the ionic-strength iteration"
+
+
+# ---------------------------------------------------------------- derived quantities
+def _solved_args(solution: Solution, eq: Equilibrium):  # noqa: ANN202
+    """Kernel arguments at the solved ionic strength, and x = ln h, all flattened."""
+    shape = solution.shape
+    block = _prepare(solution, shape)
+    f = _flat(eq.log_gamma, shape)
+    x = _flat(eq.ph_conc, shape) * -LN10
+    return _kernel_args(block, f), x, block
+
+
+def _shaped_out(v: NDArray[np.float64], shape: tuple[int, ...]) -> Number:
+    v = np.asarray(v, dtype=np.float64)
+    return float(v.reshape(-1)[0]) if not shape else np.broadcast_to(v, (int(np.prod(shape)),)).reshape(shape).copy()
+
+
+def buffer_capacity(solution: Solution, exact: Equilibrium | None = None) -> Number:
+    r"""Buffer capacity β = dC_b/dpH [mol/L per pH], exact and analytic.
+
+    The strong base C_b needed to hold the solution at h is, from the charge
+    balance, C_b(h) = N(h) − P₀(h) (P₀: P without C_b), so
+
+    .. math::
+        \beta = \frac{dC_b}{d\mathrm{pH}} = \ln 10\left(\frac{dP}{d\ln h} - \frac{dN}{d\ln h}\right)
+             = \ln 10\;P\,\frac{dG}{d\ln h}
+
+    at the root (where P = N), with the derivative the solver already forms.
+    For one monoprotic acid of total C this is the closed form of Van Slyke,
+
+    .. math::
+        \beta = \ln 10\left(\frac{C K_a h}{(K_a + h)^2} + h + \frac{K_w}{h}\right)
+
+    The derivative is taken at the equilibrium ionic strength held fixed
+    (conditional constants) and with respect to the concentration-scale pH;
+    an open CO₂ system contributes its own capacity (the gas is taken up or
+    released), a closed one as a component of fixed total.
+
+    Parameters
+    ----------
+    solution : Solution
+    exact : Equilibrium, optional
+        The solved equilibrium of ``solution``, if already at hand.
+
+    Returns
+    -------
+    float or array
+        β [mol/(L·pH)], of the solution's shape.
+
+    Examples
+    --------
+    Pure water at Kw = 1e-14: β = ln 10 · 2 × 10⁻⁷:
+
+    >>> round(buffer_capacity(Solution(pkw=14.0)) / 1e-7, 4)
+    4.6052
+
+    References
+    ----------
+    .. [1] D. D. Van Slyke, J. Biol. Chem. 52, 525–570 (1922).
+    .. [2] J. N. Butler, Ionic Equilibrium (Wiley, 1998), ch. 4 (buffer index).
+    """
+    eq = exact if exact is not None else equilibrium(solution)
+    (kw, ks, comps, ca, cb), x, _ = _solved_args(solution, eq)
+    with np.errstate(over="ignore", under="ignore"):
+        _, dg, p, _, _ = _balance(x, kw, ks, comps, ca, cb)
+    return _shaped_out(LN10 * p * dg, solution.shape)
+
+
+TITRANTS = ("strong-base", "strong-acid")
+"""The titrants :func:`titrant_for_ph` knows: monovalent, fully dissociated."""
+
+
+def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str = "strong-base", *, tolerance: float = TOLERANCE) -> Number:
+    r"""Amount of strong base or acid that brings the solution to a target pH.
+
+    The titrant enters the charge balance linearly (P gains C_b, N gains C_a),
+    so at the target h the amount is read off the balance in closed form:
+
+    .. math::
+        \Delta C_b = N(h^*) - P(h^*),\qquad \Delta C_a = P(h^*) - N(h^*)
+
+    with h* = 10^(−pH*)/γ_H. With an activity model the titrant's own ions
+    change the ionic strength, so this is repeated at the ionic strength of the
+    titrated solution until it no longer changes (a fixed-point iteration).
+    Counter-ions of the titrant (Na⁺, Cl⁻) are inert.
+
+    Parameters
+    ----------
+    solution : Solution
+        The solution before adjustment (it may already hold strong acid or base).
+    target_ph : float or array
+        Target pH on the activity scale (the concentration scale when ideal).
+    titrant : str
+        ``strong-base`` or ``strong-acid``.
+
+    Returns
+    -------
+    float or array
+        Titrant to add [mol per litre of final solution] (volume change neglected).
+
+    Raises
+    ------
+    InputRangeError
+        Unknown titrant, or a target this titrant cannot reach (the solution is
+        already beyond it: it would need the other titrant).
+    ConvergenceError
+        If the ionic-strength iteration does not settle.
+
+    Examples
+    --------
+    Acetic acid 0.1 mol/L (pKa 4.756) to pH 4.756 with NaOH, ideal: very
+    nearly half of it, 0.05 mol/L (plus the [H⁺] it leaves):
+
+    >>> from dossier.chemistry import Protolyte, Component
+    >>> ac = Protolyte("acetic", (4.756,))
+    >>> round(titrant_for_ph(Solution([Component(ac, 0.1)], pkw=14.0), 4.756), 5)
+    0.04998
+    """
+    if titrant not in TITRANTS:
+        raise InputRangeError("titrant", f"must be one of {', '.join(TITRANTS)}; got {titrant!r}")
+    target = np.asarray(target_ph, dtype=np.float64)
+    if not np.all(np.isfinite(target)) or np.any((target < 0.0) | (target > 16.0)):
+        raise InputRangeError("target_ph", f"must be a finite pH in 0 … 16; got {target_ph!r}")
+    shape = tuple(np.broadcast_shapes(solution.shape, target.shape))
+    block = _prepare(solution, shape)
+    tgt = _flat(target, shape) if shape else target
+    model = activity_model(solution.activity)
+    ideal = model.id == ActivityModelId.IDEAL
+    sign = 1.0 if titrant == "strong-base" else -1.0
+    f = np.zeros(tgt.shape)
+    amount = np.zeros(tgt.shape)
+    with np.errstate(over="ignore", under="ignore"):
+        for _ in range(_MAX_OUTER):
+            kw, ks, comps, ca, cb = _kernel_args(block, f)
+            x = (-tgt - f) * LN10
+            _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
+            new = sign * (n - p)
+            if ideal:
+                amount = new
+                break
+            extra_cb, extra_ca = (np.maximum(new, 0.0), 0.0) if sign > 0 else (0.0, np.maximum(new, 0.0))
+            i_new = _ionic_strength(x, kw, alphas, comps, ca + extra_ca, cb + extra_cb, block.background)
+            f_new = model.unit_log_gamma(np.sqrt(i_new), i_new, block.a_dh, block.ba, float(solution.davies_coefficient))
+            done = np.all(np.abs(new - amount) <= tolerance * np.maximum(np.abs(new), 1e-300)) and np.all(np.abs(f_new - f) <= tolerance)
+            amount, f = new, f_new
+            if done:
+                break
+        else:
+            raise ConvergenceError("titrant_for_ph: the ionic-strength iteration did not converge")
+    if np.any(amount < 0.0):
+        other = "strong-acid" if titrant == "strong-base" else "strong-base"
+        first = float(np.ravel(tgt)[int(np.flatnonzero(np.ravel(amount) < 0.0)[0])]) if np.ndim(tgt) else float(tgt)
+        raise InputRangeError("target_ph", f"pH {first:g} cannot be reached with {titrant}: the solution is already beyond it (it needs {other})")
+    return _shaped_out(amount, shape)

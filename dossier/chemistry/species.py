@@ -28,6 +28,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from .. import limits
 from .activity import DAVIES_COEFFICIENT, MODELS
+from .carbonate import AIR_PARTIAL_PRESSURE_ATM
 from .errors import InputRangeError
 from .temperature import pka_at_temperature
 
@@ -40,6 +41,8 @@ __all__ = [
     "Protolyte",
     "Component",
     "Solution",
+    "CarbonDioxide",
+    "CO2_MODES",
 ]
 
 PKA_LIMITS = limits.PKA_ENGINE
@@ -258,6 +261,73 @@ class Component:
         return -self.form_charge
 
 
+CO2_MODES = ("none", "open", "closed")
+"""How a solution meets carbon dioxide: none (CO₂-free), open (to a gas at a
+fixed partial pressure), closed (a stated total of dissolved inorganic carbon)."""
+
+
+@dataclass(frozen=True, eq=False)
+class CarbonDioxide:
+    r"""The carbon dioxide condition of a solution.
+
+    Parameters
+    ----------
+    mode : str
+        ``none``: CO₂-free water. ``open``: in equilibrium with a gas at
+        ``partial_pressure``, so the dissolved [H₂CO₃*] = K_H p_CO₂ is fixed and
+        the solution takes up or gives off CO₂ as its pH requires. ``closed``:
+        ``total`` mol/L of dissolved inorganic carbon added as CO₂ (as H₂CO₃*),
+        conserved: C_T = [H₂CO₃*] + [HCO₃⁻] + [CO₃²⁻].
+    partial_pressure : float or array
+        CO₂ partial pressure p_CO₂ [atm] (open only), within
+        :data:`dossier.limits.CO2_PARTIAL_PRESSURE`.
+    total : float or array
+        Total dissolved inorganic carbon C_T [mol/L] (closed only).
+
+    Examples
+    --------
+    >>> CarbonDioxide.air().partial_pressure
+    0.00042
+    >>> CarbonDioxide.closed(5e-5).mode
+    'closed'
+    """
+
+    mode: str = "none"
+    partial_pressure: Number = 0.0
+    total: Number = 0.0
+
+    def __post_init__(self) -> None:
+        if self.mode not in CO2_MODES:
+            raise InputRangeError("CarbonDioxide.mode", f"must be one of {', '.join(CO2_MODES)}; got {self.mode!r}")
+        p = checked_number("CarbonDioxide.partial_pressure", self.partial_pressure, *limits.CO2_PARTIAL_PRESSURE, "atm")
+        c = checked_number("CarbonDioxide.total", self.total, *TOTAL_LIMITS, "mol/L")
+        if self.mode != "open" and np.any(np.asarray(p) != 0.0):
+            raise InputRangeError("CarbonDioxide.partial_pressure", f"applies to the open mode only (mode is {self.mode})")
+        if self.mode != "closed" and np.any(np.asarray(c) != 0.0):
+            raise InputRangeError("CarbonDioxide.total", f"applies to the closed mode only (mode is {self.mode})")
+        object.__setattr__(self, "partial_pressure", p)
+        object.__setattr__(self, "total", c)
+
+    @classmethod
+    def air(cls) -> CarbonDioxide:
+        """Open to air: p_CO₂ = :data:`~dossier.chemistry.carbonate.AIR_PARTIAL_PRESSURE_ATM`."""
+        return cls("open", partial_pressure=AIR_PARTIAL_PRESSURE_ATM)
+
+    @classmethod
+    def open(cls, partial_pressure: ArrayLike) -> CarbonDioxide:
+        """Open to a gas at ``partial_pressure`` [atm]."""
+        return cls("open", partial_pressure=partial_pressure)  # type: ignore[arg-type]
+
+    @classmethod
+    def closed(cls, total: ArrayLike) -> CarbonDioxide:
+        """Closed, with ``total`` [mol/L] of dissolved inorganic carbon added as CO₂."""
+        return cls("closed", total=total)  # type: ignore[arg-type]
+
+
+NO_CO2 = CarbonDioxide()
+"""The default: CO₂-free water."""
+
+
 @dataclass(frozen=True, eq=False)
 class Solution:
     """An aqueous solution of protolytes, strong acid/base and inert salt.
@@ -283,6 +353,8 @@ class Solution:
     ion_size : float, optional
         Ion-size parameter å [Å] of the extended Debye–Hückel equation;
         None uses Bå = 1.5 (Bates–Guggenheim convention).
+    co2 : CarbonDioxide
+        The carbon dioxide condition (default: none, CO₂-free water).
 
     Examples
     --------
@@ -300,6 +372,7 @@ class Solution:
     pkw: Number | None = None
     davies_coefficient: float = DAVIES_COEFFICIENT
     ion_size: float | None = None
+    co2: CarbonDioxide = NO_CO2
     shape: tuple[int, ...] = field(init=False, repr=False)
 
     def __post_init__(self) -> None:
@@ -319,12 +392,15 @@ class Solution:
         object.__setattr__(self, "davies_coefficient", checked_number("Solution.davies_coefficient", self.davies_coefficient, *limits.DAVIES_COEFFICIENT_RANGE))
         if self.ion_size is not None:
             object.__setattr__(self, "ion_size", checked_number("Solution.ion_size", self.ion_size, *limits.ION_SIZE, "Å"))
+        if not isinstance(self.co2, CarbonDioxide):
+            raise InputRangeError("Solution.co2", f"must be a CarbonDioxide; got {type(self.co2).__name__}")
         object.__setattr__(self, "shape", self._broadcast_shape())
 
     def _arrays(self) -> list[Number]:
         out: list[Number] = [self.temperature, self.strong_acid, self.strong_base, self.background]
         if self.pkw is not None:
             out.append(self.pkw)
+        out.extend((self.co2.partial_pressure, self.co2.total))
         for c in self.components:
             out.append(c.total)
             out.extend(c.protolyte.pka)

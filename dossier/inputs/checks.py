@@ -9,17 +9,30 @@ the nominal concentration, pKa order, shortcuts that exist and apply.
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import re
 from dataclasses import dataclass, field
 
 from .. import limits
-from ..chemistry import CATALOGUE, ActivityModelId, ChemistryError, InputRangeError, activity_model, equilibrium
+from ..chemistry import (
+    AIR_PARTIAL_PRESSURE_ATM,
+    CATALOGUE,
+    ActivityModelId,
+    ChemistryError,
+    ConvergenceError,
+    InputRangeError,
+    Solution,
+    activity_model,
+    equilibrium,
+    titrant_for_ph,
+)
 from ..chemistry.activity import thermodynamic_pka
 from ..chemistry.temperature import REFERENCE_TEMPERATURE, pka_at_temperature
 from ..problems import Problem, Severity
 from .model import (
     METHOD_FILE,
+    AdjustmentSpec,
     TABLE,
     ComponentSpec,
     ConditionsSpec,
@@ -33,9 +46,9 @@ from .model import (
 from pydantic import ValidationError
 
 from .forms import FormError, protons_removed
-from .schema import ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
+from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
 from .substances import Substance, SubstanceTable
-from .units import UnitError, format_concentration, parse_concentration
+from .units import UnitError, format_concentration, parse_concentration, parse_pressure
 from .yamlpos import LoadedYaml
 
 __all__ = ["build_method", "CONCENTRATION_LIMITS"]
@@ -334,6 +347,11 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
     except InputRangeError as exc:
         ctx.add(loc, f"cannot be solved as given: {exc}")
         return None
+    if sol.adjusted_to is not None:
+        spec = _adjusted(ctx, loc + ("adjusted_to",), sol, spec, engine_solution, conditions)
+        if spec is None:
+            return None
+        engine_solution = spec.to_solution(conditions)
     ok = True
     for i, sid in enumerate(sol.shortcuts):
         why = CATALOGUE[sid].why_not(engine_solution)
@@ -392,6 +410,29 @@ def _within_model_range(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: Con
     return ok
 
 
+def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution: Solution, conditions: ConditionsSpec) -> SolutionSpec | None:
+    """The solution with the exact amount of titrant that reaches ``adjusted_to.ph``."""
+    adj = sol.adjusted_to
+    assert adj is not None
+    stock = None
+    if adj.stock is not None:
+        stock = _concentration(ctx, loc + ("stock",), adj.stock, None, conditions.temperature)
+        if stock is None:
+            return None
+    try:
+        amount = float(titrant_for_ph(solution, adj.ph, adj.with_))
+    except (InputRangeError, ConvergenceError) as exc:
+        ctx.add(loc + ("ph",), f"cannot be reached: {exc.message if isinstance(exc, InputRangeError) else exc}")
+        return None
+    if stock is not None and amount > stock:
+        ctx.add(loc + ("stock",), f"the titrant needed ({format_concentration(amount)}) is more than the stock itself ({adj.stock}): no volume of it can deliver that")
+        return None
+    adjustment = AdjustmentSpec(adj.ph, adj.with_, amount, stock, adj.stock)
+    if adj.with_ == "strong-base":
+        return dataclasses.replace(spec, strong_base=spec.strong_base + amount, adjustment=adjustment)
+    return dataclasses.replace(spec, strong_acid=spec.strong_acid + amount, adjustment=adjustment)
+
+
 def _check_solutions(ctx: _Ctx, indexed: list[tuple[int, SolutionIn]], refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> list[SolutionSpec | None]:
     seen: dict[str, int] = {}  # id folded to lower case → index of its first use
     out = []
@@ -425,7 +466,7 @@ def check_valid_parts(path: str, data: dict, doc: LoadedYaml, table: SubstanceTa
         c = Conditions.model_validate(data.get("conditions", {}))
     except ValidationError:
         c = Conditions()
-    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
+    conditions = _conditions(None, c)
     refs = set()
     raw_refs = data.get("references", {})
     if isinstance(raw_refs, dict):
@@ -438,6 +479,41 @@ def check_valid_parts(path: str, data: dict, doc: LoadedYaml, table: SubstanceTa
             continue
     _check_solutions(ctx, indexed, refs, conditions, set())
     return ctx.problems
+
+
+def _conditions(ctx: _Ctx | None, c: Conditions) -> ConditionsSpec:
+    """The checked conditions; a CO₂ statement that cannot be read is reported (when ``ctx``) and taken as none."""
+    base = (c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
+    co2 = c.co2
+    if co2 == "none":
+        return ConditionsSpec(*base)
+    if co2 == "air":
+        return ConditionsSpec(*base, co2="open", co2_partial_pressure=AIR_PARTIAL_PRESSURE_ATM, co2_as_written="air")
+    if isinstance(co2, Co2Open):
+        try:
+            p = parse_pressure(co2.partial_pressure)
+        except UnitError as e:
+            if ctx:
+                ctx.add(("conditions", "co2", "partial_pressure"), str(e))
+            return ConditionsSpec(*base)
+        lo, hi = limits.CO2_PARTIAL_PRESSURE
+        if not lo <= p <= hi:
+            if ctx:
+                ctx.add(("conditions", "co2", "partial_pressure"), f"{co2.partial_pressure} is {p:g} atm; allowed {lo:g} … {hi:g} atm")
+            return ConditionsSpec(*base)
+        return ConditionsSpec(*base, co2="open", co2_partial_pressure=p, co2_as_written=f"partial_pressure: {co2.partial_pressure}")
+    try:
+        total = parse_concentration(co2.dissolved, temperature=c.temperature).mol_per_l
+    except UnitError as e:
+        if ctx:
+            ctx.add(("conditions", "co2", "dissolved"), str(e))
+        return ConditionsSpec(*base)
+    lo, hi = limits.CONCENTRATION
+    if not lo <= total <= hi:
+        if ctx:
+            ctx.add(("conditions", "co2", "dissolved"), f"{co2.dissolved} is {total:g} mol/L; allowed {lo:g} … {hi:g} mol/L")
+        return ConditionsSpec(*base)
+    return ConditionsSpec(*base, co2="closed", co2_total=total, co2_as_written=f"dissolved: {co2.dissolved}")
 
 
 _RESERVED_NAMES = re.compile(r"^(con|prn|aux|nul|com[0-9]|lpt[0-9])(\..*)?$", re.IGNORECASE)
@@ -473,7 +549,7 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     """
     ctx = _Ctx(path, doc, table)
     c = mf.conditions
-    conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
+    conditions = _conditions(ctx, c)
     refs = set(mf.references)
     cited: set[str] = set()
     _check_ids(ctx, mf)

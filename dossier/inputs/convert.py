@@ -68,7 +68,9 @@ def solution_for(spec: SolutionSpec, conditions: ConditionsSpec, variation: Vari
     spec : SolutionSpec
         A checked solution of a method file.
     conditions : ConditionsSpec
-        The method's conditions (temperature [°C], activity model, background [mol/kg]).
+        The method's conditions (temperature [°C], activity model, background
+        [mol/kg], carbon dioxide: none, open at a partial pressure, or closed
+        with a total).
     variation : Variation, optional
         What to change; by default nothing.
 
@@ -93,6 +95,7 @@ def solution_for(spec: SolutionSpec, conditions: ConditionsSpec, variation: Vari
         strong_acid=spec.strong_acid * v.scale,
         strong_base=spec.strong_base * v.scale,
         background=conditions.background if v.background is None else v.background,
+        co2=conditions.carbon_dioxide(),
     )
 
 

@@ -100,19 +100,33 @@ def _field_at(loc: Loc) -> FieldInfo | None:
     return info
 
 
+def _union_model_for(annotation: Any, data: Any) -> Any:
+    """For a union of several models (``co2: {partial_pressure: …} | {dissolved: …}``),
+    the one whose keys the data uses; otherwise the annotation unchanged."""
+    while typing.get_origin(annotation) is typing.Annotated:
+        annotation = typing.get_args(annotation)[0]
+    if not isinstance(data, dict) or typing.get_origin(annotation) not in (typing.Union, getattr(__import__("types"), "UnionType", None)):
+        return annotation
+    models = [a for a in typing.get_args(annotation) if isinstance(a, type) and issubclass(a, BaseModel)]
+    if len(models) < 2:
+        return annotation
+    return max(models, key=lambda m: sum(k in m.model_fields for k in data))
+
+
 def _strip_unknown(data: Any, model: Any, loc: Loc, doc: LoadedYaml, out: list[Problem], path: str) -> Any:
     """Drop keys the schema does not know, each with a warning (and a suggestion)."""
-    ann = _unwrap(model)
+    ann = _unwrap(_union_model_for(model, data))
     origin = typing.get_origin(ann)
     if isinstance(ann, type) and issubclass(ann, BaseModel) and isinstance(data, dict):
         cleaned = {}
+        by_key = {(f.alias or name): f for name, f in ann.model_fields.items()}  # as written in the file ('with')
         for key, value in data.items():
-            if key in ann.model_fields:
-                cleaned[key] = _strip_unknown(value, ann.model_fields[key].annotation, loc + (key,), doc, out, path)
+            if key in by_key:
+                cleaned[key] = _strip_unknown(value, by_key[key].annotation, loc + (key,), doc, out, path)
             else:
                 pos = doc.keys.get(loc + (key,), doc.where(loc + (key,)))
-                close = difflib.get_close_matches(str(key), list(ann.model_fields), n=1, cutoff=0.7)
-                hint = f"; did you mean {close[0]!r}?" if close else f"; known keys here: {', '.join(ann.model_fields)}"
+                close = difflib.get_close_matches(str(key), list(by_key), n=1, cutoff=0.7)
+                hint = f"; did you mean {close[0]!r}?" if close else f"; known keys here: {', '.join(by_key)}"
                 out.append(Problem(path, pos.line, pos.column, dotted(loc + (key,)), f"unknown key {key!r} (ignored){hint}", Severity.WARNING))
         return cleaned
     if origin in (list, tuple) and isinstance(data, list):

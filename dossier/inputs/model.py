@@ -12,13 +12,14 @@ from enum import StrEnum
 
 import numpy as np
 
-from ..chemistry import Protolyte, Solution
+from ..chemistry import CarbonDioxide, Protolyte, Solution
 from .formulas import subscripted
 
 __all__ = [
     "PkaValue",
     "ComponentSpec",
     "SolutionSpec",
+    "AdjustmentSpec",
     "ConditionsSpec",
     "Criteria",
     "Distribution",
@@ -156,13 +157,28 @@ class ComponentSpec:
 
 @dataclass(frozen=True)
 class ConditionsSpec:
-    """Temperature [°C] with its tolerance, activity model, background ionic strength [mol/kg] with its tolerance."""
+    """Temperature [°C] with its tolerance, activity model, background ionic strength [mol/kg] with its tolerance,
+    and carbon dioxide.
+
+    ``co2`` is the engine's mode (``none``, ``open``, ``closed``);
+    ``co2_partial_pressure`` [atm] for open, ``co2_total`` [mol/L] for closed;
+    ``co2_as_written`` what the method file says (``none``, ``air``,
+    ``partial_pressure: 1000 µatm``, ``dissolved: 0.05 mmol/L``).
+    """
 
     temperature: float
     temperature_tolerance: float
     activity: str
     background: float
     background_tolerance: float = 0.0
+    co2: str = "none"
+    co2_partial_pressure: float = 0.0
+    co2_total: float = 0.0
+    co2_as_written: str = "none"
+
+    def carbon_dioxide(self) -> CarbonDioxide:
+        """The engine's CO₂ condition."""
+        return CarbonDioxide(self.co2, partial_pressure=self.co2_partial_pressure, total=self.co2_total)
 
 
 @dataclass(frozen=True)
@@ -174,8 +190,38 @@ class Criteria:
 
 
 @dataclass(frozen=True)
+class AdjustmentSpec:
+    """'Adjust to pH X with …' as checked: the target, the titrant and the exact amount added.
+
+    Attributes
+    ----------
+    target_ph : float
+        Target pH (activity scale).
+    titrant : str
+        ``strong-base`` or ``strong-acid``.
+    amount : float
+        Titrant added by the exact model [mol per litre of final solution];
+        already included in the solution's ``strong_base`` or ``strong_acid``.
+    stock : float or None
+        Stock concentration [mol/L], when stated.
+    stock_text : str or None
+        The stock as written.
+    """
+
+    target_ph: float
+    titrant: str
+    amount: float
+    stock: float | None = None
+    stock_text: str | None = None
+
+
+@dataclass(frozen=True)
 class SolutionSpec:
-    """One solution: its components, strong acid/base [mol/L] and claimed shortcuts."""
+    """One solution: its components, strong acid/base [mol/L] and claimed shortcuts.
+
+    With ``adjustment``, the strong acid or base already includes the titrant
+    the exact model adds to reach the target pH.
+    """
 
     id: str
     description: str
@@ -183,6 +229,7 @@ class SolutionSpec:
     strong_acid: float
     strong_base: float
     shortcuts: tuple[str, ...]
+    adjustment: AdjustmentSpec | None = None
 
     def same_substance(self, component: int) -> tuple[int, ...]:
         """Indices of every component that is the same substance as ``component``

@@ -24,7 +24,10 @@ __all__ = [
     "MethodInfo",
     "Acceptance",
     "Conditions",
+    "Co2Open",
+    "Co2Closed",
     "SolutionIn",
+    "AdjustedTo",
     "ComponentIn",
     "PkaIn",
     "ReferenceIn",
@@ -106,6 +109,22 @@ class Acceptance(_Model):
     )
 
 
+class Co2Open(_Model):
+    """Open to a gas at a stated CO₂ partial pressure."""
+
+    partial_pressure: str = Field(
+        min_length=1, max_length=100,
+        description="CO₂ partial pressure with its unit: µatm (or uatm), atm, Pa, kPa (e.g. '1000 µatm'); at most 1 atm.",
+        examples=["1000 µatm", "0.1 kPa"],
+    )
+
+
+class Co2Closed(_Model):
+    """Closed: a stated total of dissolved inorganic carbon added (as CO₂)."""
+
+    dissolved: ConcentrationText = Field(description="Total dissolved inorganic carbon added, with unit (e.g. '0.05 mmol/L').")
+
+
 class Conditions(_Model):
     """Conditions of use, common to every solution of the method."""
 
@@ -128,6 +147,13 @@ class Conditions(_Model):
     background_ionic_strength_tolerance: float = Field(
         0.0, ge=limits.BACKGROUND[0], le=limits.BACKGROUND[1], allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
         description="Half-width of the allowed background ionic strength (± value), rectangular distribution.",
+    )
+    co2: Literal["none", "air"] | Co2Open | Co2Closed = Field(
+        "none",
+        description=(
+            "Carbon dioxide: 'none' (CO₂-free water, the default), 'air' (open to air: 420 µatm, Henry's law at the working temperature), "
+            "{partial_pressure: 1000 µatm} (open at a stated partial pressure), or {dissolved: 0.05 mmol/L} (closed: this total dissolved inorganic carbon added)."
+        ),
     )
 
 
@@ -201,6 +227,16 @@ class ComponentIn(_Model):
         return parse_form(v)
 
 
+class AdjustedTo(_Model):
+    """'Adjust to pH X with …': the titrant is added until the exact pH reaches the target."""
+
+    ph: float = Field(ge=limits.TARGET_PH[0], le=limits.TARGET_PH[1], allow_inf_nan=False, json_schema_extra=_unit("pH"), description="Target pH (activity scale, as a pH meter reads it).")
+    with_: Literal["strong-base", "strong-acid"] = Field(
+        alias="with", description="Titrant: strong-base (e.g. NaOH) or strong-acid (e.g. HCl), monovalent and fully dissociated.",
+    )
+    stock: ConcentrationText | None = Field(None, description="Concentration of the titrant stock, with unit, for the volume per litre (optional).")
+
+
 class SolutionIn(_Model):
     """One solution whose pH the SOP calculates."""
 
@@ -210,6 +246,10 @@ class SolutionIn(_Model):
     strong_acid: ConcentrationText | None = Field(None, description="Added strong acid (e.g. HCl), with unit.")
     strong_base: ConcentrationText | None = Field(None, description="Added strong base (e.g. NaOH), with unit.")
     shortcuts: list[str] = Field(min_length=1, max_length=12, description="Ids of the shortcuts the SOP relies on (see docs/calculations.md).")
+    adjusted_to: AdjustedTo | None = Field(
+        None,
+        description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",
+    )
 
 
 class ReferenceIn(_Model):

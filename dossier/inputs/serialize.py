@@ -10,7 +10,7 @@ from __future__ import annotations
 from dataclasses import asdict
 from typing import Any
 
-from .model import ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
+from .model import AdjustmentSpec, ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
 
 __all__ = ["method_to_dict", "method_from_dict"]
 
@@ -38,6 +38,8 @@ def _solution(d: dict[str, Any]) -> SolutionSpec:
     d = dict(d)
     d["components"] = tuple(_component(c) for c in d["components"])
     d["shortcuts"] = tuple(d["shortcuts"])
+    if d.get("adjustment") is not None:
+        d["adjustment"] = AdjustmentSpec(**d["adjustment"])
     return SolutionSpec(**d)
 
 

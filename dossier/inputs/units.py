@@ -24,11 +24,53 @@ from ..chemistry.water import water_density
 from ..display import significant
 
 __all__ = ["UnitError", "Concentration", "parse_concentration", "format_concentration", "ALLOWED_UNITS",
-           "celsius", "celsius_difference", "TEMPERATURE_PATTERN"]
+           "celsius", "celsius_difference", "TEMPERATURE_PATTERN", "parse_pressure", "PRESSURE_UNITS"]
 
 ALLOWED_UNITS = "mol/L, mmol/L, µmol/L (or umol/L), mol/kg, mg/L or g/L (with a molar mass), % w/v (with a molar mass)"
 
 _WV = re.compile(r"%\s*\(?\s*w\s*/\s*v\s*\)?\s*$", re.IGNORECASE)
+
+
+PRESSURE_UNITS = "µatm (or uatm), atm, Pa, kPa"
+_PRESSURE = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(µatm|μatm|uatm|atm|Pa|kPa)\s*$")
+_PRESSURE_ATM = {"µatm": 1e-6, "μatm": 1e-6, "uatm": 1e-6, "atm": 1.0, "Pa": 1.0 / 101325.0, "kPa": 1000.0 / 101325.0}
+"""Factor to atm: 1 atm = 101325 Pa exactly (CGPM 1954, Resolution 4)."""
+
+
+def parse_pressure(text: str | float | int) -> float:
+    """A partial pressure with its unit, in atm.
+
+    Parameters
+    ----------
+    text : str
+        A number and one of µatm (uatm), atm, Pa, kPa, e.g. ``"1000 µatm"``.
+
+    Returns
+    -------
+    float
+        The pressure [atm] (1 atm = 101325 Pa).
+
+    Raises
+    ------
+    UnitError
+        When the text is not a number with one of those units, or is negative.
+
+    Examples
+    --------
+    >>> parse_pressure("420 µatm")
+    0.00042
+    >>> round(parse_pressure("101.325 kPa"), 12)
+    1.0
+    """
+    if isinstance(text, (int, float)) and not isinstance(text, bool):
+        raise UnitError(f"needs a unit: write e.g. '{text} µatm' (allowed: {PRESSURE_UNITS})")
+    m = _PRESSURE.match(str(text))
+    if not m:
+        raise UnitError(f"must be a number with a unit such as '1000 µatm' (allowed: {PRESSURE_UNITS}); got {text!r}")
+    value = float(m.group(1))
+    if value < 0.0:
+        raise UnitError(f"a partial pressure cannot be negative; got {text!r}")
+    return _tidy(value * _PRESSURE_ATM[m.group(2)])
 
 
 class UnitError(ValueError):

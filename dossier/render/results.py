@@ -232,6 +232,48 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
         },
         "approximations": [_shortcut(sa, s, analysis.method) for s in sa.shortcuts],
         "appendix": [_shortcut(sa, s, analysis.method) for s in sa.appendix],
+        **_co2(sa),
+    }
+
+
+def _co2(sa: SolutionAnalysis) -> dict[str, Any]:
+    """``co2`` (the condition as solved) and ``co2_open_to_air`` (when the method assumes none)."""
+    r = sa.co2
+    if r is None:
+        return {}
+    air = None
+    if r.mode == "none":
+        air = {"ph": r.ph_open_to_air, "shift": r.shift_open_to_air, "exceeds_acceptance_limit": r.exceeds_limit}
+    return {
+        "co2": {
+            "mode": r.mode,
+            "partial_pressure_atm": r.partial_pressure_atm,
+            "henry_mol_per_l_atm": r.henry_mol_per_l_atm,
+            "total_mol_per_l": r.total_mol_per_l,
+            "pka": list(r.pka) if r.pka is not None else None,
+        },
+        "co2_open_to_air": air,
+        **_adjustment(sa),
+    }
+
+
+def _adjustment(sa: SolutionAnalysis) -> dict[str, Any]:
+    """``adjustment`` (null without ``adjusted_to``) and ``adjustment_stock`` (null without a stock)."""
+    r = sa.adjustment
+    if r is None:
+        return {"adjustment": None, "adjustment_stock": None}
+    stock = None
+    if r.stock_mol_per_l is not None:
+        stock = {"stock_mol_per_l": r.stock_mol_per_l, "volume_ml_per_l": r.volume_ml_per_l, "shortcut_volume_ml_per_l": r.shortcut_volume_ml_per_l}
+    return {
+        "adjustment": {
+            "target_ph": r.target_ph,
+            "titrant": r.titrant,
+            "amount_mol_per_l": r.amount_mol_per_l,
+            "shortcut_amount_mol_per_l": r.shortcut_amount_mol_per_l,
+            "shortcut_recipe_ph": r.shortcut_recipe_ph,
+        },
+        "adjustment_stock": stock,
     }
 
 

@@ -14,7 +14,7 @@ import pytest
 from dossier import display
 from dossier.analysis.method import AnalysisSettings, analyse_method
 from dossier.render.results import csv_tables, results_document
-from dossier.inputs.loader import load_method
+from dossier.inputs.loader import load_method, load_method_bytes
 from dossier.inputs.substances import load_table
 from dossier.render.figures import method_figures
 from dossier.render.prose import prose
@@ -41,12 +41,13 @@ def verdicts(a) -> dict[str, str]:  # noqa: ANN001
     ("name", "expected"),
     [
         ("benzoate-extract", {"weak-acid-square-root": "pass"}),
-        ("boric-rinse", {"weak-acid-square-root": "conditional", "weak-acid-water-corrected": "pass"}),
+        # open to air (co2: air): carbonic acid, not boric acid, sets the pH of the rinse
+        ("boric-rinse", {"weak-acid-square-root": "fail", "weak-acid-water-corrected": "fail"}),
         # the square root errs by −0.019 at nominal against ±0.02: conformity probability far below 95 %
         ("formic-mobile-phase", {"weak-acid-square-root": "fail", "weak-acid-quadratic": "pass"}),
-        # u(pH) of the exact value 0.056 (±3 °C on ΔH°) against ±0.02: must not meet the criterion
+        # u(pH) of the exact value 0.056 (±3 °C on ΔH°) against ±0.02, and open to air: must not meet the criterion
         ("ammonia-reagent", {"weak-base-square-root": "fail"}),
-        # error +0.086 at nominal against ±0.1, u(pH) 0.02: conformity probability about 72 %
+        # open to air, and error +0.086 at nominal against ±0.1 with u(pH) 0.02 before that
         ("acetate-salt-diluent", {"conjugate-base-square-root": "fail"}),
         # ampholyte mean −0.009 against ±0.02 with u(pH) 0.018: about 65 %
         ("glycine-diluent", {"ampholyte-mean": "fail"}),
@@ -59,7 +60,12 @@ def test_demo_verdicts(name: str, expected: dict[str, str]) -> None:
 
 
 def test_restricted_range_states_the_part_of_the_working_range() -> None:
-    a = demo("boric-rinse")
+    # the boric rinse as if prepared with CO2-free water (the demo states it open to air,
+    # where carbonic acid sets the pH and the shortcut fails everywhere)
+    text = (ROOT / "methods" / "boric-rinse.yaml").read_text(encoding="utf-8").replace("co2: air", "co2: none")
+    load = load_method_bytes(text.encode(), "boric-rinse.yaml")
+    assert load.method is not None, [str(p) for p in load.problems]
+    a = analyse_method(load.method, FAST)
     sa = a.solutions[0]
     s = next(s for s in sa.shortcuts if s.id == "weak-acid-square-root")
     assert s.verdict.status == "conditional"
@@ -161,3 +167,27 @@ def test_figures_are_valid_deterministic_and_described() -> None:
         assert root.tag.endswith("svg")
         assert b"<dc:date>" not in f.svg
         assert len(f.alt) > 40 and f.caption
+
+
+def test_results_document_echoes_the_co2_condition() -> None:
+    # Open to air: 420 µatm, K_H and pK1/pK2 of Plummer & Busenberg (1982) at 20 °C.
+    doc = json.loads(json.dumps(results_document(demo("boric-rinse"), load_table().sha256)))
+    sol = doc["solutions"][0]
+    co2 = sol["co2"]
+    assert set(co2) == {"mode", "partial_pressure_atm", "henry_mol_per_l_atm", "total_mol_per_l", "pka"}
+    assert co2["mode"] == "open" and co2["partial_pressure_atm"] == pytest.approx(420e-6)
+    assert co2["henry_mol_per_l_atm"] == pytest.approx(10 ** -1.407, rel=0.01)  # log K_H(20 °C) = −1.407
+    assert co2["pka"] == pytest.approx([6.382, 10.376], abs=0.001)
+    assert co2["total_mol_per_l"] > co2["henry_mol_per_l_atm"] * co2["partial_pressure_atm"]
+    assert sol["co2_open_to_air"] is None
+    # Water near pH 5.6 open to air: the boric acid barely matters.
+    assert abs(sol["exact"]["ph"] - 5.6) < 0.06
+
+
+def test_results_document_gives_the_ph_open_to_air_when_co2_is_not_stated() -> None:
+    doc = json.loads(json.dumps(results_document(demo("benzoate-extract"), load_table().sha256)))
+    sol = doc["solutions"][0]
+    assert sol["co2"] == {"mode": "none", "partial_pressure_atm": None, "henry_mol_per_l_atm": None, "total_mol_per_l": None, "pka": None}
+    air = sol["co2_open_to_air"]
+    assert air["shift"] == pytest.approx(air["ph"] - sol["exact"]["ph"])
+    assert air["exceeds_acceptance_limit"] == (abs(air["shift"]) > doc["criteria"]["max_ph_error"])

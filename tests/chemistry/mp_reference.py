@@ -6,7 +6,10 @@ directly as Σ z·c = 0 over every ion (counter-ions included) rather than as a
 proton condition, log10 h is found by plain bisection, and the ionic strength
 by the Illinois variant of regula falsi. Only the physical constants and
 formulas are shared (IAPWS R11-07, Kell 1975, Malmberg & Maryott 1956,
-CODATA 2018, van 't Hoff), each typed in again here from its source.
+CODATA 2018, van 't Hoff, Plummer & Busenberg 1982 for CO₂), each typed in
+again here from its source. Open CO₂ is written as [HCO₃⁻] = K₁ K_H p/(γ₁² h),
+[CO₃²⁻] = K₂ [HCO₃⁻] /(γ₂ h) (γ of H₂CO₃* = 1); closed CO₂ as one more
+diprotic component.
 """
 
 from __future__ import annotations
@@ -33,6 +36,18 @@ _KB = mp.mpf("1.380649e-23")
 _NA = mp.mpf("6.02214076e23")
 _EPS0 = mp.mpf("8.8541878128e-12")
 _R = mp.mpf("8.314462618")
+# Plummer & Busenberg (1982): log10 K = a + b T + c/T + d log10 T + e/T²
+_PB = {
+    "KH": [mp.mpf(v) for v in ("108.3865", "0.01985076", "-6919.53", "-40.45154", "669365")],
+    "K1": [mp.mpf(v) for v in ("-356.3094", "-0.06091964", "21834.37", "126.8339", "-1684915")],
+    "K2": [mp.mpf(v) for v in ("-107.8871", "-0.03252849", "5151.79", "38.92561", "-563713.9")],
+}
+
+
+def pb_log_k(name: str, t: mp.mpf) -> mp.mpf:
+    a, b, c, d, e = _PB[name]
+    T = t + mp.mpf("273.15")
+    return a + b * T + c / T + d * mp.log10(T) + e / T**2
 
 
 def density(t: mp.mpf) -> mp.mpf:
@@ -93,6 +108,9 @@ class Case:
     pkw: float | None = None
     davies_coefficient: float = 0.3
     ion_size: float | None = None
+    co2_mode: str = "none"  # none | open | closed
+    pco2: float = 0.0  # atm (open)
+    dic: float = 0.0  # mol/L (closed)
 
 
 def log_gamma1(case: Case, i: mp.mpf, t: mp.mpf) -> mp.mpf:
@@ -134,6 +152,20 @@ def _species(case: Case, log_h: mp.mpf, f: mp.mpf, t: mp.mpf):
             ions.append((-1, mp.mpf(c.total) * q))
         elif q < 0:
             ions.append((1, mp.mpf(c.total) * -q))
+    if case.co2_mode != "none":
+        k1 = mp.power(10, pb_log_k("K1", t))
+        k2 = mp.power(10, pb_log_k("K2", t))
+        if case.co2_mode == "open":
+            s = mp.power(10, pb_log_k("KH", t)) * mp.mpf(case.pco2)
+            hco3 = k1 * s / (gamma(1) ** 2 * h)
+            ions.append((-1, hco3))
+            ions.append((-2, k2 * hco3 * gamma(1) / (gamma(1) * gamma(2) * h)))
+        else:
+            r1 = k1 / (gamma(1) ** 2 * h)
+            r2 = r1 * k2 * gamma(1) / (gamma(1) * gamma(2) * h)
+            den = 1 + r1 + r2
+            ions.append((-1, mp.mpf(case.dic) * r1 / den))
+            ions.append((-2, mp.mpf(case.dic) * r2 / den))
     return ions, h
 
 

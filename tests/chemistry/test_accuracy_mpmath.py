@@ -11,7 +11,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from dossier.chemistry import Component, Protolyte, Solution, equilibrium
+from dossier.chemistry import CarbonDioxide, Component, Protolyte, Solution, equilibrium
 
 from . import mp_reference as ref
 
@@ -64,6 +64,7 @@ def _engine(case: ref.Case):
             background=case.background,
             pkw=case.pkw,
             ion_size=case.ion_size,
+            co2=CarbonDioxide(case.co2_mode, partial_pressure=case.pco2, total=case.dic),
         )
     )
 
@@ -117,3 +118,35 @@ def test_vectorized_solve_matches_pointwise() -> None:
     for i in range(0, 50, 7):
         one = equilibrium(Solution([Component(Protolyte("x", tuple(pka[i])), float(total[i]), 1)], temperature=float(t[i]), activity="davies"))
         assert abs(grid.ph[i] - one.ph) <= 1e-12
+
+
+# Carbon dioxide (open to a gas, closed with a total) and mixtures of two
+# substances, against the same 50-digit route (its CO₂ terms are written from
+# Plummer & Busenberg 1982 independently of dossier.chemistry.carbonate).
+_AMMONIUM = ref.Comp([9.245], 0.01, removed=0, charge=1, dh=[51.95])
+_ACETATE = ref.Comp([4.756], 0.01, removed=1, dh=[-0.41])
+
+
+@pytest.mark.parametrize(
+    "case",
+    [
+        ref.Case([], co2_mode="open", pco2=420e-6),
+        ref.Case([], co2_mode="open", pco2=420e-6, temperature=0.0),
+        ref.Case([], co2_mode="open", pco2=420e-6, temperature=50.0, activity="davies"),
+        ref.Case([], co2_mode="open", pco2=1.0, temperature=90.0, activity="extended-debye-huckel"),
+        ref.Case([], co2_mode="open", pco2=420e-6, strong_base=0.01, activity="davies"),
+        ref.Case([], co2_mode="open", pco2=1e-3, strong_base=1.0, activity="debye-huckel"),
+        ref.Case([ref.Comp([9.236], 0.05)], co2_mode="open", pco2=420e-6),
+        ref.Case([ref.Comp([9.245], 0.1, removed=1, charge=1)], co2_mode="open", pco2=420e-6, activity="davies"),
+        ref.Case([], co2_mode="closed", dic=0.05, strong_base=0.075, activity="davies"),
+        ref.Case([], co2_mode="closed", dic=5e-5, temperature=37.0),
+        ref.Case([ref.Comp([4.756], 0.01, removed=1)], co2_mode="closed", dic=1e-4, activity="extended-debye-huckel"),
+        ref.Case([_AMMONIUM, _ACETATE], activity="davies"),
+        ref.Case([_AMMONIUM, _ACETATE], co2_mode="open", pco2=420e-6, temperature=37.0, activity="davies"),
+        ref.Case([ref.Comp([4.756], 0.1), ref.Comp([8.072], 0.05, removed=1, charge=1)], activity="extended-debye-huckel"),
+        ref.Case([ref.Comp([3.128, 4.761, 6.396], 0.02), ref.Comp([2.148, 7.198, 12.35], 0.03, removed=2)], activity="davies"),
+    ],
+    ids=lambda c: f"{c.co2_mode}-{len(c.comps)}comp-{c.activity}-{c.temperature:g}C",
+)
+def test_co2_and_mixtures_agree_with_50_digit_route(case: ref.Case) -> None:
+    _check(case)
