@@ -14,6 +14,7 @@ from dataclasses import dataclass
 
 from ..chemistry import CATALOGUE, applicable, debye_huckel_a, equilibrium
 from ..inputs.model import Method, SolutionSpec
+from .aswritten import ConstantsUsed, constants_used
 from .maps import ErrorMap, PkaCurves, error_map, pka_curves
 from .montecarlo import DEFAULT_DRAWS, Comparison, McResult, compare, monte_carlo
 from .sensitivity import GumResult, gum
@@ -77,6 +78,8 @@ class ShortcutAnalysis:
     justification: str | None
     map: ErrorMap | None
     curves: PkaCurves | None
+    constants_used: ConstantsUsed | None = None
+    """The constants put into the shortcut's equation at nominal conditions, beside the model's."""
 
 
 @dataclass(frozen=True)
@@ -120,7 +123,8 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
                 id=sid,
                 title=CATALOGUE[sid].title,
                 claimed=True,
-                ph=float(CATALOGUE[sid].ph(nominal)),
+                ph=float(spec.approximation(sid).ph(nominal)),
+                constants_used=constants_used(spec.approximation(sid), nominal),
                 error=v.nominal_error,
                 validity=v,
                 gum=gum_errors[sid],
@@ -136,7 +140,8 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
         if approx.id in claimed:
             continue
         v = validity(approx.id, spec, c, limit)
-        appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None, None))
+        appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None, None,
+                                         constants_used(approx, nominal)))
     return SolutionAnalysis(spec, exact, gum_exact, mc, compare(gum_exact, mc.exact), tuple(shortcuts), tuple(appendix))
 
 

@@ -33,7 +33,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from ..chemistry import CATALOGUE, equilibrium
+from ..chemistry import equilibrium
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import inputs_of, solution_for, variation_from
 from .sensitivity import GumResult
@@ -154,7 +154,7 @@ def monte_carlo(
     errors: dict[str, Summary] = {}
     p_exceed: dict[str, float] = {}
     for sid in approx_ids:
-        err = np.broadcast_to(np.asarray(CATALOGUE[sid].ph(sol), dtype=np.float64), (draws,)) - exact
+        err = np.broadcast_to(np.asarray(spec.approximation(sid).ph(sol), dtype=np.float64), (draws,)) - exact
         errors[sid] = _summary(err)
         p_exceed[sid] = float(np.count_nonzero(np.abs(err) > limit)) / draws
     return McResult(draws, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit)

@@ -285,7 +285,7 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
     >>> [(round(i.low * 1e3, 2), i.robust) for i in v.concentration_intervals][1]  # mmol/L
     (1.22, True)
     """
-    approx = CATALOGUE[approx_id]
+    approx = spec.approximation(approx_id)  # with the procedure's own constants where it states them
     c0 = spec.components[0].concentration
     scales = concentration_scales(spec, CONCENTRATION_POINTS)
     exact, err, parts = _errors(approx, solution_for(spec, conditions, Variation(scale=scales)))

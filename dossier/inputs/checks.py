@@ -14,13 +14,14 @@ import re
 from dataclasses import dataclass, field
 
 from .. import limits
-from ..chemistry import CATALOGUE, ActivityModelId, InputRangeError
+from ..chemistry import CATALOGUE, ActivityModelId, InputRangeError, StatedConstants
 from ..chemistry.activity import thermodynamic_pka
 from ..chemistry.temperature import REFERENCE_TEMPERATURE, pka_at_temperature
 from ..problems import Problem, Severity
 from .model import (
     METHOD_FILE,
     TABLE,
+    ClaimedShortcut,
     ComponentSpec,
     ConditionsSpec,
     Criteria,
@@ -33,7 +34,7 @@ from .model import (
 from pydantic import ValidationError
 
 from .forms import FormError, protons_removed
-from .schema import ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
+from .schema import ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn
 from .substances import Substance, SubstanceTable
 from .units import UnitError, format_concentration, parse_concentration
 from .yamlpos import LoadedYaml
@@ -306,12 +307,14 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
     t = conditions.temperature
     acid = _concentration(ctx, loc + ("strong_acid",), sol.strong_acid, None, t, allow_zero=True) if sol.strong_acid else 0.0
     base = _concentration(ctx, loc + ("strong_base",), sol.strong_base, None, t, allow_zero=True) if sol.strong_base else 0.0
+    ids = [sc.id for sc in sol.shortcuts]
     unknown = False
-    for i, sid in enumerate(sol.shortcuts):
-        if sid not in CATALOGUE:
-            ctx.add(loc + ("shortcuts", i), f"unknown shortcut {sid!r}{did_you_mean(sid, list(CATALOGUE))}; known: {', '.join(CATALOGUE)}")
+    for i, sc in enumerate(sol.shortcuts):
+        if sc.id not in CATALOGUE:
+            where = loc + (("shortcuts", i, "id") if sc.as_written is not None else ("shortcuts", i))
+            ctx.add(where, f"unknown shortcut {sc.id!r}{did_you_mean(sc.id, list(CATALOGUE))}; known: {', '.join(CATALOGUE)}")
             unknown = True
-    if len(set(sol.shortcuts)) != len(sol.shortcuts):
+    if len(set(ids)) != len(ids):
         ctx.warn(loc + ("shortcuts",), "a shortcut is listed twice")
     if any(c is None for c in comps) or acid is None or base is None or unknown:
         return None
@@ -325,19 +328,66 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
                 "not in proportion to the first component's: the analyses dilute or concentrate the whole solution "
                 "together over the first component's working range",
             )
-    spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(sol.shortcuts)))  # type: ignore[arg-type]
+    claims = _claims(ctx, loc, sol.shortcuts, comps[0])  # type: ignore[arg-type]
+    if claims is None:
+        return None
+    spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(ids)), claims)  # type: ignore[arg-type]
     try:
         engine_solution = spec.to_solution(conditions)
     except InputRangeError as exc:
         ctx.add(loc, f"cannot be solved as given: {exc}")
         return None
     ok = True
-    for i, sid in enumerate(sol.shortcuts):
+    for i, sid in enumerate(ids):
         why = CATALOGUE[sid].why_not(engine_solution)
         if why is not None:
             ctx.add(loc + ("shortcuts", i), f"{sid} does not apply to this solution: {why}")
             ok = False
     return spec if ok else None
+
+
+def _claims(ctx: _Ctx, loc: Loc, shortcuts: list[ShortcutIn], first: ComponentSpec) -> tuple[ClaimedShortcut, ...] | None:
+    """The claims that state the procedure's own constants (``as_written:``), checked:
+    one pKa per step of the first component, each within the limits of a
+    stated pKa, pKw within the limits of an override, only for a formula.
+    None when one is wrong (each problem added)."""
+    out: list[ClaimedShortcut] = []
+    ok = True
+    seen: set[str] = set()
+    for i, sc in enumerate(shortcuts):
+        aw = sc.as_written
+        if aw is None or sc.id in seen:
+            continue
+        seen.add(sc.id)
+        here = loc + ("shortcuts", i, "as_written")
+        if not CATALOGUE[sc.id].formula:
+            ctx.add(here, f"{sc.id} is the exact solution with one assumption changed, not a formula: it has no constants of its own to state")
+            ok = False
+            continue
+        steps = len(first.pka)
+        pka: tuple[float | None, ...] = ()
+        if aw.pka is not None:
+            if len(aw.pka) != steps:
+                ctx.add(here + ("pka",), f"{len(aw.pka)} value(s) for {first.name}, which has {steps} ionization step(s): give one per step, null for the model's value")
+                ok = False
+                continue
+            (lo, hi) = limits.PKA_STATED
+            for j, v in enumerate(aw.pka):
+                if v is not None and not lo <= v <= hi:
+                    ctx.add(here + ("pka", j), f"must be a pKa from {_num(lo)} to {_num(hi)}; got {v:g}")
+                    ok = False
+            pka = tuple(aw.pka)
+        if aw.pkw is not None:
+            (lo, hi) = limits.PKW_OVERRIDE
+            if not lo <= aw.pkw <= hi:
+                ctx.add(here + ("pkw",), f"must be a pKw from {_num(lo)} to {_num(hi)}; got {aw.pkw:g}")
+                ok = False
+        stated = StatedConstants(pka, aw.pkw)
+        if stated.empty:
+            ctx.warn(here, "states no constant of the procedure's own: the shortcut uses the model's values")
+            continue
+        out.append(ClaimedShortcut(sc.id, stated))
+    return tuple(out) if ok else None
 
 
 def _check_solutions(ctx: _Ctx, indexed: list[tuple[int, SolutionIn]], refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> list[SolutionSpec | None]:

@@ -12,13 +12,14 @@ from enum import StrEnum
 
 import numpy as np
 
-from ..chemistry import Protolyte, Solution
+from ..chemistry import CATALOGUE, Approximation, Protolyte, Solution, StatedConstants
 from .formulas import subscripted
 
 __all__ = [
     "PkaValue",
     "ComponentSpec",
     "SolutionSpec",
+    "ClaimedShortcut",
     "ConditionsSpec",
     "Criteria",
     "Distribution",
@@ -170,8 +171,32 @@ class Criteria:
 
 
 @dataclass(frozen=True)
+class ClaimedShortcut:
+    """A shortcut the procedure relies on, and the constants its own calculation uses.
+
+    Attributes
+    ----------
+    id : str
+        Catalogue id.
+    stated : StatedConstants or None
+        The procedure's own values (``as_written:`` in the method file): one
+        pKa per step of the first component (None: the model's value at the
+        working conditions) and pKw (None: the model's). None when the
+        procedure states none: the shortcut then uses the model's values.
+    """
+
+    id: str
+    stated: StatedConstants | None = None
+
+
+@dataclass(frozen=True)
 class SolutionSpec:
-    """One solution: its components, strong acid/base [mol/L] and claimed shortcuts."""
+    """One solution: its components, strong acid/base [mol/L] and claimed shortcuts.
+
+    ``shortcuts`` are the claimed ids in the file's order; ``as_written``
+    holds the claims that state the procedure's own constants (see
+    :meth:`approximation`).
+    """
 
     id: str
     description: str
@@ -179,6 +204,24 @@ class SolutionSpec:
     strong_acid: float
     strong_base: float
     shortcuts: tuple[str, ...]
+    as_written: tuple[ClaimedShortcut, ...] = ()
+
+    @property
+    def claims(self) -> tuple[ClaimedShortcut, ...]:
+        """Every claimed shortcut with the constants it states (None where it states none)."""
+        stated = {c.id: c.stated for c in self.as_written}
+        return tuple(ClaimedShortcut(sid, stated.get(sid)) for sid in self.shortcuts)
+
+    def stated(self, shortcut_id: str) -> StatedConstants | None:
+        """The constants the procedure states for a claimed shortcut (None: the model's)."""
+        return next((c.stated for c in self.as_written if c.id == shortcut_id), None)
+
+    def approximation(self, shortcut_id: str) -> Approximation:
+        """The catalogue's shortcut as this solution's procedure evaluates it:
+        bound to the procedure's stated constants where the claim states them
+        (:meth:`dossier.chemistry.Approximation.as_written`), else the
+        catalogue's entry (model constants), also for a shortcut not claimed."""
+        return CATALOGUE[shortcut_id].as_written(self.stated(shortcut_id))
 
     def same_substance(self, component: int) -> tuple[int, ...]:
         """Indices of every component that is the same substance as ``component``

@@ -10,7 +10,8 @@ from __future__ import annotations
 from dataclasses import asdict
 from typing import Any
 
-from .model import ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
+from ..chemistry import StatedConstants
+from .model import ClaimedShortcut, ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
 
 __all__ = ["method_to_dict", "method_from_dict"]
 
@@ -38,7 +39,13 @@ def _solution(d: dict[str, Any]) -> SolutionSpec:
     d = dict(d)
     d["components"] = tuple(_component(c) for c in d["components"])
     d["shortcuts"] = tuple(d["shortcuts"])
+    d["as_written"] = tuple(_claim(c) for c in d.get("as_written", ()))
     return SolutionSpec(**d)
+
+
+def _claim(d: dict[str, Any]) -> ClaimedShortcut:
+    st = d["stated"]
+    return ClaimedShortcut(d["id"], None if st is None else StatedConstants(tuple(st["pka"]), st["pkw"]))
 
 
 def method_from_dict(d: dict[str, Any]) -> Method:

@@ -78,6 +78,10 @@ def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
         "max_abs_error_at_total_mol_per_l": v.max_abs_error_at,
         "holds_within_working_range_mol_per_l": [list(p) for p in v.holds_within_working_range],
     }
+    cu = s.constants_used
+    if cu is not None:
+        out["constants_used"] = {"pka": list(cu.pka), "pkw": cu.pkw}
+        out["constants_stated"] = {"pka": list(cu.stated_pka), "pkw": cu.stated_pkw}
     if s.claimed:
         mc = sa.monte_carlo
         out.update(
