@@ -16,6 +16,7 @@ from ..chemistry import CATALOGUE, applicable, debye_huckel_a, equilibrium
 from ..inputs.model import Method, SolutionSpec
 from .aswritten import ConstantsUsed, constants_used
 from .maps import ErrorMap, PkaCurves, error_map, pka_curves
+from .quality import DataQualityItem, data_quality
 from .montecarlo import DEFAULT_DRAWS, Comparison, McResult, compare, monte_carlo
 from .sensitivity import GumResult, gum
 from .validity import ValidityResult, key_step, validity
@@ -93,6 +94,8 @@ class SolutionAnalysis:
     comparison: Comparison
     shortcuts: tuple[ShortcutAnalysis, ...]
     appendix: tuple[ShortcutAnalysis, ...]
+    data_quality: tuple[DataQualityItem, ...] = ()
+    """Values a reviewer cannot take on trust, each with what a plausible error would do."""
 
 
 @dataclass(frozen=True)
@@ -142,7 +145,8 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
         v = validity(approx.id, spec, c, limit)
         appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None, None,
                                          constants_used(approx, nominal)))
-    return SolutionAnalysis(spec, exact, gum_exact, mc, compare(gum_exact, mc.exact), tuple(shortcuts), tuple(appendix))
+    quality = data_quality(method, spec, gum_exact, gum_errors, {s.id: s.error for s in shortcuts})
+    return SolutionAnalysis(spec, exact, gum_exact, mc, compare(gum_exact, mc.exact), tuple(shortcuts), tuple(appendix), quality)
 
 
 def analyse_method(method: Method, settings: AnalysisSettings | None = None, *, progress: Callable[[str], None] | None = None) -> MethodAnalysis:

@@ -40,7 +40,8 @@ from .batch import Input, InputKind, inputs_of, same_substance, solution_for, va
 
 __all__ = ["Contribution", "Coefficients", "GumResult", "gum"]
 
-_STEP = {InputKind.PKA: 1e-3, InputKind.CONCENTRATION: 1e-3, InputKind.TEMPERATURE: 0.02, InputKind.BACKGROUND: 1e-4}
+_STEP = {InputKind.PKA: 1e-3, InputKind.CONCENTRATION: 1e-3, InputKind.TEMPERATURE: 0.02, InputKind.BACKGROUND: 1e-4,
+         InputKind.PKA_AT_TEMPERATURE: 1e-3}
 
 
 @dataclass(frozen=True)

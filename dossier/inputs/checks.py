@@ -34,6 +34,8 @@ from .model import (
 from pydantic import ValidationError
 
 from .forms import FormError, protons_removed
+from .quality import Concern, DataFlag, Quantity, data_flags, farthest_temperature
+from .substances import STATUS_MEANINGS
 from .schema import ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn
 from .substances import Substance, SubstanceTable
 from .units import UnitError, format_concentration, parse_concentration
@@ -59,6 +61,7 @@ class _Ctx:
     doc: LoadedYaml
     table: SubstanceTable
     problems: list[Problem] = field(default_factory=list)
+    reference_kinds: dict[str, str] = field(default_factory=dict)
 
     def add(self, loc: Loc, message: str, severity: Severity = Severity.ERROR) -> None:
         pos = self.doc.where(loc)
@@ -168,13 +171,16 @@ def _pka(
         return None
 
     enthalpy, dh_origin = entry.enthalpy, METHOD_FILE
+    dh_status = dh_source = dcp_status = dcp_source = ""
     if enthalpy is None and table_step is not None and table_step.enthalpy is not None:
         enthalpy, dh_origin = table_step.enthalpy.value, TABLE
+        dh_status, dh_source = table_step.enthalpy.status, table_step.enthalpy.source
     if enthalpy is None:
         dh_origin = "none"
     heat_capacity = entry.heat_capacity
     if heat_capacity is None and entry.enthalpy is None and table_step is not None and table_step.heat_capacity is not None:
         heat_capacity = table_step.heat_capacity.value
+        dcp_status, dcp_source = table_step.heat_capacity.status, table_step.heat_capacity.source
 
     # stated value (T_s, I_s) -> thermodynamic at T_s -> thermodynamic at 25 °C
     t_s, i_s = entry.temperature, entry.ionic_strength
@@ -196,8 +202,6 @@ def _pka(
             pk25 = pk_ts - (float(pka_at_temperature(0.0, t_s, enthalpy, heat_capacity)))
     else:
         pk25 = pk_ts
-    if t_s == REFERENCE_TEMPERATURE and enthalpy is None and conditions.temperature != REFERENCE_TEMPERATURE:
-        ctx.warn(loc, f"no enthalpy of ionization: the 25 °C pKa is used unchanged at {conditions.temperature:g} °C")
     at_t = float(pka_at_temperature(pk25, conditions.temperature, enthalpy, heat_capacity))
     distribution = Distribution(entry.distribution)
     spread = limits.DRAW_TRUNCATION_SIGMAS * entry.uncertainty if distribution == Distribution.NORMAL else 3.0**0.5 * entry.uncertainty
@@ -222,6 +226,10 @@ def _pka(
         reference=reference,
         status=status,
         enthalpy_origin=dh_origin,
+        enthalpy_status=dh_status,
+        heat_capacity_status=dcp_status,
+        enthalpy_source=dh_source,
+        heat_capacity_source=dcp_source,
     )
 
 
@@ -337,6 +345,8 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
     except InputRangeError as exc:
         ctx.add(loc, f"cannot be solved as given: {exc}")
         return None
+    for flag in data_flags(spec, conditions, ctx.reference_kinds):
+        _warn_flag(ctx, loc, spec, conditions, flag)
     ok = True
     for i, sid in enumerate(ids):
         why = CATALOGUE[sid].why_not(engine_solution)
@@ -344,6 +354,31 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
             ctx.add(loc + ("shortcuts", i), f"{sid} does not apply to this solution: {why}")
             ok = False
     return spec if ok else None
+
+
+_QUANTITY_WORDS = {Quantity.PKA: "pKa{n}", Quantity.ENTHALPY: "ΔH° of step {n}", Quantity.HEAT_CAPACITY: "ΔCp° of step {n}"}
+_UNITS = {Quantity.PKA: "", Quantity.ENTHALPY: " kJ/mol", Quantity.HEAT_CAPACITY: " J/(K·mol)"}
+
+
+def _warn_flag(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: ConditionsSpec, flag: DataFlag) -> None:
+    """A data-quality warning at the pKa entry, naming the value (an error under --strict)."""
+    comp = spec.components[flag.component]
+    what = _QUANTITY_WORDS[flag.quantity].format(n=flag.step + 1) + f" of {comp.name}"
+    here: Loc = loc + ("components", flag.component, "pka", flag.step)
+    if flag.concern == Concern.NO_ENTHALPY:
+        t = farthest_temperature(conditions)
+        ctx.warn(here, f"pKa{flag.step + 1} of {comp.name} has no enthalpy of ionization ΔH°, and the working temperature reaches {t:g} °C: the 25 °C pKa is used unchanged, "
+                       "and the uncertainty budget takes ΔH° as unknown within ±50 kJ/mol; state the enthalpy with its reference")
+        return
+    value = f"{_num(flag.value or 0.0)}{_UNITS[flag.quantity]}"
+    source = f"{flag.origin}, source {flag.reference!r}" if flag.origin == TABLE else f"reference {flag.reference!r}"
+    if flag.concern in (Concern.RECALLED, Concern.UNVERIFIED):
+        ctx.warn(here, f"{what} = {value} ({source}) is {flag.concern}: {STATUS_MEANINGS[flag.concern]}; "
+                       "check it against the source or state a value with its reference")
+    elif flag.concern == Concern.ESTIMATE:
+        ctx.warn(here + ("reference",), f"{what} = {value} ({source}) is an estimate, not a measurement or a compilation")
+    else:
+        ctx.warn(here + ("uncertainty",), f"{what} = {value} has no uncertainty (0): its error does not enter the budget; state a standard uncertainty")
 
 
 def _claims(ctx: _Ctx, loc: Loc, shortcuts: list[ShortcutIn], first: ComponentSpec) -> tuple[ClaimedShortcut, ...] | None:
@@ -469,7 +504,7 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     (Method or None, list of Problem)
         None when any error was found.
     """
-    ctx = _Ctx(path, doc, table)
+    ctx = _Ctx(path, doc, table, reference_kinds={k: r.kind for k, r in mf.references.items()})
     c = mf.conditions
     conditions = ConditionsSpec(c.temperature, c.temperature_tolerance, c.activity_model, c.background_ionic_strength, c.background_ionic_strength_tolerance)
     refs = set(mf.references)

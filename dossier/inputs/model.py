@@ -72,6 +72,11 @@ class PkaValue:
         ``stated`` for a method-file value; the table status otherwise.
     enthalpy_origin : str
         Where ΔH° came from (``method file``, ``substance table`` or ``none``).
+    enthalpy_status, heat_capacity_status : str
+        The table status of ΔH° and ΔCp° when they came from the table
+        (``confirmed`` … ``recalled``); empty otherwise.
+    enthalpy_source, heat_capacity_source : str
+        The table's source key of ΔH° and ΔCp°; empty otherwise.
     """
 
     stated: float
@@ -87,6 +92,10 @@ class PkaValue:
     reference: str
     status: str
     enthalpy_origin: str
+    enthalpy_status: str = ""
+    heat_capacity_status: str = ""
+    enthalpy_source: str = ""
+    heat_capacity_source: str = ""
 
 
 @dataclass(frozen=True)
