@@ -173,6 +173,27 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
         },
         "approximations": [_shortcut(sa, s) for s in sa.shortcuts],
         "appendix": [_shortcut(sa, s) for s in sa.appendix],
+        "data_quality": [
+            {
+                "component": q.flag.component,
+                "step": q.flag.step + 1,
+                "quantity": str(q.flag.quantity),
+                "concern": str(q.flag.concern),
+                "value": q.flag.value,
+                "origin": q.flag.origin,
+                "reference": q.flag.reference,
+                "plausible_error": q.plausible_error,
+                "common_practice": q.common_practice,
+                "pka_shift": q.pka_shift,
+                "at_temperature_c": q.temperature,
+                "d_ph_d_pka": q.coefficient,
+                "shift_exact_ph": q.shift_exact,
+                "shift_error": q.shift_error,
+                "worst_abs_error": q.worst_abs_error,
+                "in_budget": q.in_budget,
+            }
+            for q in sa.data_quality
+        ],
     }
 
 
