@@ -29,6 +29,7 @@ __all__ = [
     "ION_SIZE",
     "DAVIES_COEFFICIENT_RANGE",
     "PKA_UNCERTAINTY",
+    "MOLAR_MASS",
     "MAX_PH_ERROR",
     "PROBABILITY",
     "PERCENT_TOLERANCE",
@@ -38,6 +39,8 @@ __all__ = [
     "VALIDITY_CONCENTRATION_REL_TOLERANCE",
     "VALIDITY_PKA_TOLERANCE",
     "DRAW_TRUNCATION_SIGMAS",
+    "ACTIVITY_MODEL_RANGE",
+    "MODEL_RANGE_REFUSAL_FACTOR",
     "describe",
 ]
 
@@ -77,6 +80,8 @@ BACKGROUND = (0.0, 5.0)
 """Background ionic strength and the ionic strength of a stated pKa in a method file [mol/kg]."""
 TEMPERATURE_TOLERANCE = (0.0, 20.0)
 """Half-width of the working temperature [°C]."""
+MOLAR_MASS = (0.0, 5000.0)
+"""A molar mass stated in a method file [g/mol] (the low end excluded)."""
 PKA_UNCERTAINTY = (0.0, 2.0)
 """Standard uncertainty of a pKa [pKa units]."""
 MAX_PH_ERROR = (0.0, 2.0)
@@ -101,6 +106,38 @@ DRAW_TRUNCATION_SIGMAS = 8.0
 """A normal draw is truncated at this many standard uncertainties (the
 probability beyond is below 1e-15), so that no draw leaves the range the
 method file was checked for."""
+
+
+# ---------------------------------------------------------------- the activity models' ranges
+ACTIVITY_MODEL_RANGE: dict[str, float | None] = {
+    "ideal": None,
+    "debye-huckel": 0.005,
+    "extended-debye-huckel": 0.1,
+    "davies": 0.5,
+}
+"""Largest ionic strength at which each activity model is used in practice [mol/kg].
+
+The ideal model has no range: it is an approximation at every ionic
+strength (None). The other values are the customary upper ends:
+
+- Debye–Hückel limiting law, I ≤ 0.005 mol/kg;
+- extended Debye–Hückel equation, I ≤ 0.1 mol/kg — the range of the
+  Bates–Guggenheim convention (R. G. Bates and E. A. Guggenheim, Pure Appl.
+  Chem. 1, 163–168 (1960), which defines the convention for I ≤ 0.1 mol/kg);
+- Davies equation, I ≤ 0.5 mol/kg (C. W. Davies, Ion Association,
+  Butterworths, London, 1962, p. 41, where the equation is offered for
+  dilute solutions and tested up to about 0.1 mol/kg; 0.5 mol/kg is the
+  customary upper end).
+
+The three values are tabulated together in W. Stumm and J. J. Morgan, Aquatic
+Chemistry, 3rd ed. (Wiley, New York, 1996), Table 3.3 — recalled from
+memory, not checked against the book. Keys are the activity-model ids of
+:mod:`dossier.chemistry.activity`.
+"""
+MODEL_RANGE_REFUSAL_FACTOR = 4.0
+"""`check` refuses an ionic strength more than this many times the activity
+model's range (:data:`ACTIVITY_MODEL_RANGE`); between the range and this
+factor it warns. Common practice, no source."""
 
 
 def describe(limits: tuple[float, float], unit: str = "") -> str:

@@ -66,6 +66,7 @@ class MethodBuilder:
     temperature_tolerance: float = 0.0
     activity_model: str = "ideal"
     background: float | None = None
+    background_tolerance: float | None = None
     solutions: tuple[dict[str, Any], ...] = ()
     references: dict[str, dict[str, Any]] = field(default_factory=dict)
 
@@ -90,6 +91,8 @@ class MethodBuilder:
                                       "activity_model": self.activity_model}
         if self.background is not None:
             conditions["background_ionic_strength"] = self.background
+        if self.background_tolerance is not None:
+            conditions["background_ionic_strength_tolerance"] = self.background_tolerance
         acceptance: dict[str, Any] = {"max_ph_error": self.limit}
         if self.probability is not None:
             acceptance["probability"] = self.probability

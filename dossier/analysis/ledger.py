@@ -29,6 +29,8 @@ EQUATIONS = {
     "monte-carlo-jcgm-101": "Monte Carlo propagation, JCGM 101:2008, seeded PCG64",
     "validity-brent": "crossing of the acceptance limit, grid and Brent's method (0.1 % in concentration, 0.001 in pKa)",
     "working-range-maximum": "largest |error| over the working range, grid and bounded minimization",
+    "operating-region-maximum": "largest |error| over the operating region (working range × temperature ± tolerance × background ± tolerance), grid and L-BFGS-B",
+    "conformity-jcgm-106": "conformity probability P(|shortcut pH − true pH| ≤ limit), JCGM 106:2012 §7.3 (GUM closed form or Monte Carlo count)",
 }
 """What each ``equation`` of a ledger entry means (shortcut entries name the catalogue id)."""
 
@@ -96,6 +98,15 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
             Entry(f"{base}/mc_coverage_low", d.coverage[0], "pH", "lower end of the 95 % coverage interval of the error", "monte-carlo-jcgm-101", sid),
             Entry(f"{base}/mc_coverage_high", d.coverage[1], "pH", "upper end of the 95 % coverage interval of the error", "monte-carlo-jcgm-101", sid),
             Entry(f"{base}/p_exceed", mc.p_exceed[k], "1", "probability that |error| exceeds the limit", "monte-carlo-jcgm-101", sid),
+        ]
+        vd = s.verdict
+        w = vd.worst  # type: ignore[union-attr]
+        out += [
+            Entry(f"{base}/conformity", vd.conformity, "1", f"conformity probability of {k} ({vd.result_used})", "conformity-jcgm-106", sid),  # type: ignore[union-attr]
+            Entry(f"{base}/region_worst_error", w.error, "pH", f"error of {k} at the worst point of the operating region", "operating-region-maximum", sid),
+            Entry(f"{base}/region_worst_total", w.concentration, "mol/L", f"worst point of the operating region ({first})", "operating-region-maximum", sid),
+            Entry(f"{base}/region_worst_temperature", w.temperature, "°C", "worst point of the operating region (temperature)", "operating-region-maximum", sid),
+            Entry(f"{base}/region_worst_background", w.background, "mol/kg", "worst point of the operating region (background ionic strength)", "operating-region-maximum", sid),
         ]
     return out
 

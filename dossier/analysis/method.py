@@ -2,8 +2,9 @@
 
 For each solution: the exact equilibrium at nominal inputs; GUM and Monte
 Carlo for the exact pH and for each claimed shortcut's error; validity ranges,
-an error map and pKa curves for each claimed shortcut; verdicts and drafted
-justifications; and, as an appendix, the validity ranges of every other
+an error map and pKa curves for each claimed shortcut; the operating region
+and a verdict under the decision rule (:mod:`dossier.analysis.verdicts`; the
+words are written by render); and, as an appendix, the validity ranges of every other
 shortcut that applies.
 """
 
@@ -16,11 +17,13 @@ from ..chemistry import CATALOGUE, applicable, debye_huckel_a, equilibrium
 from ..inputs.model import Method, SolutionSpec
 from .aswritten import ConstantsUsed, constants_used
 from .maps import ErrorMap, PkaCurves, error_map, pka_curves
+from .decision import ModelUncertainty, model_uncertainty
 from .quality import DataQualityItem, data_quality
 from .montecarlo import DEFAULT_DRAWS, Comparison, McResult, compare, monte_carlo
+from .region import operating_region
 from .sensitivity import GumResult, gum
 from .validity import ValidityResult, key_step, validity
-from .verdicts import Verdict, justification, verdict
+from .verdicts import Verdict, verdict
 
 __all__ = ["AnalysisSettings", "ExactResult", "ShortcutAnalysis", "SolutionAnalysis", "MethodAnalysis", "analyse_method", "DEFAULT_SEED"]
 
@@ -63,8 +66,8 @@ class ExactResult:
 class ShortcutAnalysis:
     """Everything about one shortcut of one solution.
 
-    ``gum``, ``comparison``, ``verdict`` and ``justification`` are None for
-    an appendix shortcut (one the SOP does not claim).
+    ``gum``, ``comparison`` and ``verdict`` are None for an appendix
+    shortcut (one the SOP does not claim).
     """
 
     id: str
@@ -76,7 +79,6 @@ class ShortcutAnalysis:
     gum: GumResult | None
     comparison: Comparison | None
     verdict: Verdict | None
-    justification: str | None
     map: ErrorMap | None
     curves: PkaCurves | None
     constants_used: ConstantsUsed | None = None
@@ -94,6 +96,7 @@ class SolutionAnalysis:
     comparison: Comparison
     shortcuts: tuple[ShortcutAnalysis, ...]
     appendix: tuple[ShortcutAnalysis, ...]
+    model: ModelUncertainty
     data_quality: tuple[DataQualityItem, ...] = ()
     """Values a reviewer cannot take on trust, each with what a plausible error would do."""
 
@@ -116,11 +119,14 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
     claimed = spec.shortcuts
     keys = {sid: key_step(sid, spec, c) for sid in claimed}
     gum_exact, gum_errors = gum(claimed, spec, c, keys)
-    mc = monte_carlo(claimed, spec, c, limit, draws=settings.draws, seed=settings.seed, spawn_key=(index,))
+    model = model_uncertainty(c.activity, exact.ionic_strength)
+    mc = monte_carlo(claimed, spec, c, limit, draws=settings.draws, seed=settings.seed, spawn_key=(index,), model_u=model.u)
+    exact_cmp = compare(gum_exact, mc.exact)
     shortcuts = []
     for sid in claimed:
         v = validity(sid, spec, c, limit)
-        vd = verdict(v, mc, method.criteria.probability)
+        region = operating_region(sid, spec, c, limit)
+        vd = verdict(sid, v.nominal_error, region, gum_exact, mc, exact_cmp, model, method.criteria.probability)
         shortcuts.append(
             ShortcutAnalysis(
                 id=sid,
@@ -133,7 +139,6 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
                 gum=gum_errors[sid],
                 comparison=compare(gum_errors[sid], mc.errors[sid]),
                 verdict=vd,
-                justification=justification(method, spec, v, exact.ph, gum_exact.u, mc, vd),
                 map=error_map(sid, spec, c, n_pka=settings.map_pka, n_conc=settings.map_conc),
                 curves=pka_curves(sid, spec, c),
             )
@@ -143,10 +148,10 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
         if approx.id in claimed:
             continue
         v = validity(approx.id, spec, c, limit)
-        appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None, None,
+        appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None,
                                          constants_used(approx, nominal)))
     quality = data_quality(method, spec, gum_exact, gum_errors, {s.id: s.error for s in shortcuts})
-    return SolutionAnalysis(spec, exact, gum_exact, mc, compare(gum_exact, mc.exact), tuple(shortcuts), tuple(appendix), quality)
+    return SolutionAnalysis(spec, exact, gum_exact, mc, exact_cmp, tuple(shortcuts), tuple(appendix), model, quality)
 
 
 def analyse_method(method: Method, settings: AnalysisSettings | None = None, *, progress: Callable[[str], None] | None = None) -> MethodAnalysis:

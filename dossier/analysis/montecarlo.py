@@ -28,7 +28,7 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 from numpy.typing import NDArray
@@ -36,6 +36,7 @@ from numpy.typing import NDArray
 from ..chemistry import equilibrium
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import inputs_of, solution_for, variation_from
+from .decision import conformity_counted
 from .sensitivity import GumResult
 
 __all__ = ["Summary", "Comparison", "McResult", "monte_carlo", "compare", "DEFAULT_DRAWS", "COVERAGE", "K95"]
@@ -96,6 +97,12 @@ class McResult:
     p_exceed : dict
         ``{shortcut id: P(|error| > limit)}``.
     limit : float
+    p_conform : dict
+        ``{shortcut id: fraction of draws with |pH_shortcut − pH_true| ≤ limit}``: the
+        shortcut at nominal inputs against each draw of the exact pH plus a
+        normal draw of the activity model's error (:mod:`dossier.analysis.decision`).
+    model_u : float
+        Standard uncertainty of the activity model used for those draws [pH].
     """
 
     draws: int
@@ -105,6 +112,8 @@ class McResult:
     errors: dict[str, Summary]
     p_exceed: dict[str, float]
     limit: float
+    p_conform: dict[str, float] = field(default_factory=dict)
+    model_u: float = 0.0
 
 
 def _summary(values: NDArray[np.float64]) -> Summary:
@@ -125,6 +134,7 @@ def monte_carlo(
     draws: int = DEFAULT_DRAWS,
     seed: int = 20261202,
     spawn_key: tuple[int, ...] = (),
+    model_u: float = 0.0,
 ) -> McResult:
     """Propagate the input distributions through the exact pH and the shortcuts.
 
@@ -141,6 +151,9 @@ def monte_carlo(
         Entropy of the seed sequence (recorded in the results).
     spawn_key : tuple of int
         Distinguishes the solutions of a dossier drawn from the same seed.
+    model_u : float
+        Standard uncertainty of the activity model [pH]; drawn (normal) after
+        the inputs, so that the input draws do not depend on it.
 
     Returns
     -------
@@ -157,7 +170,10 @@ def monte_carlo(
         err = np.broadcast_to(np.asarray(spec.approximation(sid).ph(sol), dtype=np.float64), (draws,)) - exact
         errors[sid] = _summary(err)
         p_exceed[sid] = float(np.count_nonzero(np.abs(err) > limit)) / draws
-    return McResult(draws, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit)
+    model = rng.normal(0.0, model_u, draws) if model_u > 0.0 else 0.0
+    nominal = solution_for(spec, conditions)
+    p_conform = {sid: conformity_counted(float(spec.approximation(sid).ph(nominal)) - exact - model, limit) for sid in approx_ids}
+    return McResult(draws, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit, p_conform, model_u)
 
 
 def _two_digits_tolerance(u: float) -> float:

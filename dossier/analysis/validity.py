@@ -10,11 +10,23 @@ the nominal concentration.
 The error is evaluated on a grid and every crossing of ±limit is then found
 by root-finding (Brent's method) on the error itself: to 0.1 % in
 concentration and 0.001 in pKa. Because the assumptions of a shortcut can
-err in opposite directions, the set can be several intervals; each is
-marked *robust* when every single assumption's own error (see
+err in opposite directions, the set can be several intervals; each says
+whether it holds *without compensating errors* — every single assumption's
+own error (see
 :meth:`~dossier.chemistry.approximations.Approximation.partial_ph`, and the
 activity correction when the method uses an activity model) also stays within
-the limit over it, and *not robust* when it holds only because errors cancel.
+the limit over it — or only because errors of opposite sign cancel
+(``Interval.robust`` is the flag; the pages never call it "robust", a word
+that means something else in method validation).
+
+The model's range: no interval reaches beyond the ionic strength at which the
+method's activity model is used in practice
+(:attr:`~dossier.chemistry.activity.ActivityModel.max_ionic_strength`) nor,
+in the concentration sweep, beyond the solubility of a component's form (when
+the substance table gives one). The ionic strength is the engine's, solved on
+the grid; where it crosses the model's limit the crossing is found by Brent's
+method to the same tolerances. Each interval carries the ionic strength at its
+two ends, solved again by the engine at those points.
 
 References
 ----------
@@ -31,7 +43,7 @@ from numpy.typing import NDArray
 from scipy.optimize import brentq, minimize_scalar
 
 from .. import limits
-from ..chemistry import CATALOGUE, ActivityModelId, Approximation, Solution, equilibrium
+from ..chemistry import CATALOGUE, ActivityModelId, Approximation, Solution, activity_model, equilibrium
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import TOTAL_MAX, Variation, solution_for
 
@@ -71,9 +83,16 @@ class Interval:
     low, high : float
         Ends [mol/L, or pKa units].
     robust : bool
-        False when it holds only because errors of opposite sign cancel.
+        True when it holds without compensating errors; False when it holds
+        only because errors of opposite sign cancel (see
+        :attr:`without_compensating_errors`).
     low_is_sweep_end, high_is_sweep_end : bool
         True when the end is the end of the sweep, not a crossing of the limit.
+    low_is_cut, high_is_cut : bool
+        True when the end is where the sweep leaves the activity model's range
+        or reaches a solubility (the shortcut is not judged beyond it).
+    ionic_strength_low, ionic_strength_high : float
+        Ionic strength of the exact solution at each end [mol/kg].
     """
 
     low: float
@@ -81,16 +100,30 @@ class Interval:
     robust: bool
     low_is_sweep_end: bool
     high_is_sweep_end: bool
+    low_is_cut: bool = False
+    high_is_cut: bool = False
+    ionic_strength_low: float = float("nan")
+    ionic_strength_high: float = float("nan")
+
+    @property
+    def without_compensating_errors(self) -> bool:
+        """Whether it holds without compensating errors (each assumption alone within the limit)."""
+        return self.robust
 
 
 @dataclass(frozen=True)
 class Sweep:
-    """A sweep on its grid: the varied quantity, the exact pH and the error."""
+    """A sweep on its grid: the varied quantity, the exact pH, the error, the
+    single assumptions' errors, the exact solution's ionic strength [mol/kg]
+    and the parts of the sweep outside the model's range (or above a
+    solubility), as (low, high) in the swept quantity."""
 
     x: NDArray[np.float64]
     exact_ph: NDArray[np.float64]
     error: NDArray[np.float64]
     parts: dict[str, NDArray[np.float64]]
+    ionic_strength: NDArray[np.float64] | None = None
+    outside: tuple[tuple[float, float], ...] = ()
 
 
 @dataclass(frozen=True)
@@ -120,7 +153,17 @@ class ValidityResult:
     max_abs_error_at : float
         Where it occurs (first component's total) [mol/L].
     holds_within_working_range : tuple of (float, float)
-        The parts of the working range where the shortcut holds.
+        The parts of the working range where the shortcut holds (within the
+        model's range and the solubility).
+    max_ionic_strength : float or None
+        The activity model's range [mol/kg]; None for the ideal model.
+    model_range_cut : float or None
+        First component's total [mol/L] where the ionic strength reaches the
+        model's range (the sweep's low end when it starts beyond it); None
+        when the sweep stays within it.
+    solubility_cut : float or None
+        First component's total [mol/L] where a component reaches its
+        solubility (``solubility_component``); None when none is reached.
     """
 
     shortcut: str
@@ -136,6 +179,16 @@ class ValidityResult:
     max_abs_error: float
     max_abs_error_at: float
     holds_within_working_range: tuple[tuple[float, float], ...]
+    max_ionic_strength: float | None = None
+    model_range_cut: float | None = None
+    solubility_cut: float | None = None
+    solubility_component: int | None = None
+
+    @property
+    def concentration_cut(self) -> float | None:
+        """First component's total [mol/L] beyond which the shortcut is not judged (model's range or solubility), or None."""
+        cuts = [c for c in (self.model_range_cut, self.solubility_cut) if c is not None]
+        return min(cuts) if cuts else None
 
     @property
     def holds_on_whole_working_range(self) -> bool:
@@ -144,8 +197,8 @@ class ValidityResult:
 
 
 # ---------------------------------------------------------------- errors on a batch
-def _errors(approx: Approximation, solution: Solution) -> tuple[NDArray[np.float64], NDArray[np.float64], dict[str, NDArray[np.float64]]]:
-    """(exact pH, shortcut error, errors of the single assumptions) for a batch."""
+def _errors(approx: Approximation, solution: Solution) -> tuple[NDArray[np.float64], NDArray[np.float64], dict[str, NDArray[np.float64]], NDArray[np.float64]]:
+    """(exact pH, shortcut error, errors of the single assumptions, exact ionic strength [mol/kg]) for a batch."""
     exact = equilibrium(solution)
     err = np.asarray(approx.ph(solution), dtype=np.float64) - np.asarray(exact.ph)
     parts: dict[str, NDArray[np.float64]] = {}
@@ -159,12 +212,13 @@ def _errors(approx: Approximation, solution: Solution) -> tuple[NDArray[np.float
             parts["formula"] = np.asarray(approx.ph(solution), dtype=np.float64) - np.asarray(ideal.ph)
         if solution.activity != "ideal":
             parts["activity neglected"] = np.asarray(ideal.ph) - np.asarray(exact.ph)
-    return np.broadcast_to(np.asarray(exact.ph, dtype=np.float64), err.shape).copy(), err, parts
+    ionic = np.broadcast_to(np.asarray(exact.ionic_strength, dtype=np.float64), err.shape).copy()
+    return np.broadcast_to(np.asarray(exact.ph, dtype=np.float64), err.shape).copy(), err, parts, ionic
 
 
 def _worst_part(approx: Approximation, solution: Solution) -> float:
     """Largest |error| of the single assumptions at one point (0 when there are none)."""
-    _, _, parts = _errors(approx, solution)
+    _, _, parts, _ = _errors(approx, solution)
     return float(max((abs(float(v)) for v in parts.values()), default=0.0))
 
 
@@ -249,6 +303,66 @@ def _crossing(f, a: float, b: float, fa: float, fb: float, limit: float, tol: fl
         return a if abs(fa) <= limit else b
 
 
+def _runs(x: NDArray[np.float64], inside: NDArray[np.bool_], refine) -> tuple[tuple[float, float], ...]:  # noqa: ANN001 - callable(a, b) -> crossing
+    """Runs of grid points where ``inside`` holds, as (low, high) with the ends refined between grid points."""
+    out = []
+    i, n = 0, len(x)
+    while i < n:
+        if not inside[i]:
+            i += 1
+            continue
+        j = i
+        while j + 1 < n and inside[j + 1]:
+            j += 1
+        low = float(x[0]) if i == 0 else refine(x[i - 1], x[i])
+        high = float(x[-1]) if j == n - 1 else refine(x[j], x[j + 1])
+        out.append((low, high))
+        i = j + 1
+    return tuple(out)
+
+
+def _complement(allowed: tuple[tuple[float, float], ...], lo: float, hi: float) -> tuple[tuple[float, float], ...]:
+    """The parts of [lo, hi] outside ``allowed`` (sorted, disjoint)."""
+    out, start = [], lo
+    for a, b in allowed:
+        if a > start:
+            out.append((start, a))
+        start = max(start, b)
+    if start < hi:
+        out.append((start, hi))
+    return tuple(out)
+
+
+def _clip(intervals: tuple[Interval, ...], allowed: tuple[tuple[float, float], ...]) -> tuple[Interval, ...]:
+    """Each interval cut to the allowed parts of the sweep; an end moved there is marked as a cut."""
+    out = []
+    for iv in intervals:
+        for a, b in allowed:
+            lo, hi = max(iv.low, a), min(iv.high, b)
+            if lo < hi:
+                low_cut, high_cut = lo > iv.low, hi < iv.high
+                out.append(replace(iv, low=lo, high=hi, low_is_sweep_end=iv.low_is_sweep_end and not low_cut, high_is_sweep_end=iv.high_is_sweep_end and not high_cut,
+                                   low_is_cut=low_cut, high_is_cut=high_cut))
+    return tuple(out)
+
+
+def _level(f, a: float, b: float, fa: float, level: float, tol: float) -> float:  # noqa: ANN001
+    """Where f crosses ``level`` between a and b (one side each); the end inside (f ≤ level) when no root is bracketed."""
+    try:
+        return float(brentq(lambda v: f(v) - level, a, b, xtol=tol, rtol=4 * np.finfo(float).eps))
+    except ValueError:
+        return a if fa <= level else b
+
+
+def _with_ionic_strength(intervals: tuple[Interval, ...], ionic_at) -> tuple[Interval, ...]:  # noqa: ANN001 - callable(array of x) -> array of I
+    """Each interval with the engine's ionic strength at its two ends."""
+    if not intervals:
+        return intervals
+    ends = np.array([[iv.low, iv.high] for iv in intervals], dtype=np.float64)
+    ionic = np.asarray(ionic_at(ends.ravel()), dtype=np.float64).reshape(ends.shape)
+    return tuple(replace(iv, ionic_strength_low=float(i_lo), ionic_strength_high=float(i_hi)) for iv, (i_lo, i_hi) in zip(intervals, ionic, strict=True))
+
+
 def _working_parts(intervals: tuple[Interval, ...], lo: float, hi: float) -> tuple[tuple[float, float], ...]:
     out = []
     for iv in intervals:
@@ -286,10 +400,31 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
     (1.22, True)
     """
     approx = spec.approximation(approx_id)  # with the procedure's own constants where it states them
+    top = activity_model(conditions.activity).max_ionic_strength
     c0 = spec.components[0].concentration
     scales = concentration_scales(spec, CONCENTRATION_POINTS)
-    exact, err, parts = _errors(approx, solution_for(spec, conditions, Variation(scale=scales)))
+    exact, err, parts, ionic = _errors(approx, solution_for(spec, conditions, Variation(scale=scales)))
     x_conc = scales * c0
+
+    def ionic_conc(x: NDArray[np.float64] | float) -> NDArray[np.float64]:
+        return np.asarray(equilibrium(solution_for(spec, conditions, Variation(scale=np.asarray(x, dtype=np.float64) / c0))).ionic_strength, dtype=np.float64)
+
+    # the part of the sweep within the model's range and below every solubility
+    model_range_cut = None
+    in_model = (ionic <= top) if top is not None else np.ones_like(ionic, dtype=bool)
+    if not in_model.all():
+        first_out = int(np.argmin(in_model))
+        model_range_cut = float(x_conc[0]) if first_out == 0 else 10.0 ** _level(
+            lambda lx: float(ionic_conc(10.0**lx)), np.log10(x_conc[first_out - 1]), np.log10(x_conc[first_out]), float(ionic[first_out - 1]), top, _REL_TOL_LOG)
+    solubility_cut, solubility_component = None, None
+    for k, comp in enumerate(spec.components):
+        if comp.solubility is not None:
+            cut_k = comp.solubility * c0 / comp.concentration
+            if cut_k < x_conc[-1] and (solubility_cut is None or cut_k < solubility_cut):
+                solubility_cut, solubility_component = float(max(cut_k, x_conc[0])), k
+    conc_cuts = [c for c in (model_range_cut, solubility_cut) if c is not None]
+    conc_end = min(conc_cuts) if conc_cuts else float(x_conc[-1])
+    conc_allowed = ((float(x_conc[0]), conc_end),) if conc_end > x_conc[0] else ()
 
     def err_conc(log_x: float) -> float:
         return float(error_at(approx, spec, conditions, Variation(scale=10.0**log_x / c0)))
@@ -303,12 +438,16 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
     def refine_parts_conc(a: float, b: float, ga: float, gb: float) -> float:
         return 10.0 ** _crossing(parts_conc, np.log10(a), np.log10(b), ga, gb, limit, _REL_TOL_LOG)
 
-    conc_iv = _intervals(x_conc, err, parts, limit, refine_conc, refine_parts_conc)
+    conc_iv = _with_ionic_strength(_clip(_intervals(x_conc, err, parts, limit, refine_conc, refine_parts_conc), conc_allowed), ionic_conc)
 
     # pKa sweep of the key step (all steps of that substance shifted alike)
     k, j = key_step(approx_id, spec, conditions)
     shifts, key, same = pka_shifts(approx_id, spec, conditions, PKA_POINTS)
-    exact_p, err_p, parts_p = _errors(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: shifts for i in same})))
+    exact_p, err_p, parts_p, ionic_p = _errors(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: shifts for i in same})))
+
+    def ionic_pka(value: NDArray[np.float64] | float) -> NDArray[np.float64]:
+        shift = np.asarray(value, dtype=np.float64) - key
+        return np.asarray(equilibrium(solution_for(spec, conditions, Variation(pka_shift_all={i: shift for i in same}))).ionic_strength, dtype=np.float64)
 
     def err_pka(value: float) -> float:
         return float(error_at(approx, spec, conditions, Variation(pka_shift_all={i: value - key for i in same})))
@@ -322,7 +461,12 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
     def refine_parts_pka(a: float, b: float, ga: float, gb: float) -> float:
         return _crossing(parts_pka, a, b, ga, gb, limit, _PKA_TOL)
 
-    pka_iv = _intervals(key + shifts, err_p, parts_p, limit, refine_pka, refine_parts_pka)
+    x_pka = key + shifts
+    if top is None:
+        pka_allowed = ((float(x_pka[0]), float(x_pka[-1])),)
+    else:
+        pka_allowed = _runs(x_pka, ionic_p <= top, lambda a, b: _level(lambda v: float(ionic_pka(v)), a, b, float(ionic_pka(a)), top, _PKA_TOL))
+    pka_iv = _with_ionic_strength(_clip(_intervals(x_pka, err_p, parts_p, limit, refine_pka, refine_parts_pka), pka_allowed), ionic_pka)
 
     # largest |error| over the working range
     lo, hi = spec.components[0].working_range
@@ -343,13 +487,17 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
         limit=limit,
         nominal_error=err_conc(np.log10(c0)),
         concentration_intervals=conc_iv,
-        concentration_sweep=Sweep(x_conc, exact, err, parts),
+        concentration_sweep=Sweep(x_conc, exact, err, parts, ionic, _complement(conc_allowed, float(x_conc[0]), float(x_conc[-1]))),
         concentration_span=(float(x_conc[0]), float(x_conc[-1])),
         pka_intervals=pka_iv,
-        pka_sweep=Sweep(key + shifts, exact_p, err_p, parts_p),
+        pka_sweep=Sweep(x_pka, exact_p, err_p, parts_p, ionic_p, _complement(pka_allowed, float(x_pka[0]), float(x_pka[-1]))),
         pka_step=(k, j),
         working_range=(lo, hi),
         max_abs_error=float(worst),
         max_abs_error_at=float(where),
         holds_within_working_range=_working_parts(conc_iv, lo, hi),
+        max_ionic_strength=top,
+        model_range_cut=model_range_cut,
+        solubility_cut=solubility_cut,
+        solubility_component=solubility_component,
     )

@@ -1,33 +1,39 @@
-"""Verdicts on each claimed shortcut, and the drafted justification paragraph.
+"""Verdicts on each claimed shortcut: numbers and a status, never words.
 
-Rules (per solution and shortcut, with L the acceptance limit and P the
-required probability):
+The decision rule (:mod:`dossier.analysis.decision`) is simple acceptance with
+a conformity probability (JCGM 106:2012). With L the acceptance limit and P
+the probability the method requires, for each solution and claimed shortcut:
 
-``pass``
-    |error| ≤ L over the whole working range at nominal inputs, and
-    P(|error| > L) ≤ 1 − P under the stated uncertainties (Monte Carlo).
-``fail``
-    |error| > L at the nominal composition.
-``conditional``
-    holds at the nominal composition, but only on part of the working range,
-    or only at nominal inputs (P(|error| > L) > 1 − P); the condition is
-    stated in words.
+``pass`` (meets the criterion)
+    |error| ≤ L at every point of the operating region (working range ×
+    temperature ± tolerance × background ± tolerance), and the conformity
+    probability p_c = P(|pH_shortcut − pH_true| ≤ L) is at least P.
+``conditional`` (meets it within a restricted range)
+    |error| ≤ L at the nominal composition and p_c ≥ P, but the worst point of
+    the operating region is outside the limit: the shortcut holds on part of
+    the region only (:attr:`Verdict.holds` says which part of the working range).
+``fail`` (does not meet it)
+    |error| > L at the nominal composition, or p_c < P: the stated pH is not
+    shown to lie within the limit of the true pH.
+
+p_c comes from the closed form with the GUM u_c where the GUM result of the
+exact pH is validated by Monte Carlo (JCGM 101 §8), and is counted over the
+Monte Carlo draws where it is not. The words for each status, the reasons and
+the drafted justification are written by :mod:`dossier.render.prose`.
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from enum import StrEnum
 
-from ..chemistry import CATALOGUE
-from ..display import fixed, plain, signed, significant
-from ..inputs.formulas import subscripted
-from ..inputs.units import format_concentration
-from ..inputs.model import Method, SolutionSpec
-from .montecarlo import McResult
-from .validity import ValidityResult
+from .decision import DecisionRule, ModelUncertainty, ResultUsed, conformity_normal
+from .montecarlo import K95, Comparison, McResult
+from .region import RegionPoint, RegionResult
+from .sensitivity import GumResult
 
-__all__ = ["VerdictStatus", "Verdict", "verdict", "justification", "PASS", "FAIL", "CONDITIONAL", "format_percent"]
+__all__ = ["VerdictStatus", "Finding", "Verdict", "verdict", "PASS", "FAIL", "CONDITIONAL"]
 
 
 class VerdictStatus(StrEnum):
@@ -45,112 +51,133 @@ class VerdictStatus(StrEnum):
 PASS, FAIL, CONDITIONAL = VerdictStatus.PASS, VerdictStatus.FAIL, VerdictStatus.CONDITIONAL
 
 
+class Finding(StrEnum):
+    """Why a shortcut does not meet the criterion everywhere (stable identifiers)."""
+
+    NOMINAL_OUTSIDE = "nominal-outside-limit"
+    """|error| > L at the nominal composition and conditions."""
+    REGION_OUTSIDE = "region-outside-limit"
+    """|error| > L somewhere in the operating region."""
+    CONFORMITY_LOW = "conformity-below-required"
+    """p_c below the required probability."""
+
+
 @dataclass(frozen=True)
 class Verdict:
-    """The outcome for one shortcut of one solution.
+    """The outcome for one shortcut of one solution, with every number its reasons need.
 
     Attributes
     ----------
     status : VerdictStatus
-    condition : str
-        For ``conditional``: the condition under which the shortcut holds.
-    reasons : tuple of str
-        Why, in words, each with its numbers.
+    findings : tuple of Finding
+        Each criterion not met (empty for ``pass``).
+    rule : DecisionRule
+    limit : float
+        Acceptance limit L [pH].
+    required_probability : float
+        P, the method's acceptance.probability.
+    nominal_error : float
+        Shortcut pH − exact pH at nominal inputs [pH].
+    region : RegionResult
+        The operating region: its box, worst point, corners and the parts of
+        the working range that hold over the whole box.
+    conformity : float
+        p_c = P(|pH_shortcut − pH_true| ≤ L).
+    result_used : ResultUsed
+        GUM (closed form) or Monte Carlo (counted), per JCGM 101 §8.
+    exact_ph : float
+        The exact pH of the result used (GUM value or Monte Carlo mean).
+    exact_u : float
+        Its standard uncertainty from the inputs (GUM u_c or Monte Carlo u) [pH].
+    exact_interval : (float, float)
+        Its 95 % interval: y ± 1.96 u_c (GUM) or the Monte Carlo coverage interval.
+    model : ModelUncertainty
+        The activity model's uncertainty at the working ionic strength.
+    draws : int
+        Monte Carlo draws behind the result (recorded even when GUM is used).
     """
 
     status: VerdictStatus
-    condition: str
-    reasons: tuple[str, ...]
+    findings: tuple[Finding, ...]
+    rule: DecisionRule
+    limit: float
+    required_probability: float
+    nominal_error: float
+    region: RegionResult
+    conformity: float
+    result_used: ResultUsed
+    exact_ph: float
+    exact_u: float
+    exact_interval: tuple[float, float]
+    model: ModelUncertainty
+    draws: int
+
+    @property
+    def worst(self) -> RegionPoint:
+        """The worst point of the operating region."""
+        return self.region.worst
+
+    @property
+    def u_total(self) -> float:
+        """√(u_exact² + u_model²) [pH]: the standard uncertainty of the true pH."""
+        return math.hypot(self.exact_u, self.model.u)
 
 
-def _range(a: float, b: float) -> str:
-    return f"{format_concentration(a)} – {format_concentration(b)}"
+def verdict(
+    shortcut: str,
+    nominal_error: float,
+    region: RegionResult,
+    exact_gum: GumResult,
+    mc: McResult,
+    comparison: Comparison,
+    model: ModelUncertainty,
+    required_probability: float,
+) -> Verdict:
+    """Apply the decision rule of the module docstring.
 
+    Parameters
+    ----------
+    shortcut : str
+        Catalogue id.
+    nominal_error : float
+        Shortcut pH − exact pH at nominal inputs [pH].
+    region : RegionResult
+        The shortcut over the operating region.
+    exact_gum : GumResult
+        GUM result of the exact pH.
+    mc : McResult
+        Monte Carlo of the solution (its ``p_conform`` drawn with ``model.u``).
+    comparison : Comparison
+        GUM against Monte Carlo for the exact pH (JCGM 101 §8).
+    model : ModelUncertainty
+    required_probability : float
 
-def format_percent(p: float) -> str:
-    """A probability as a percentage: 0 %, 0.0006 %, 4.5 %, 100.0 %."""
-    if p == 0.0:
-        return "0 %"
-    if p * 100 >= 0.1:
-        return f"{fixed(p * 100, 1)} %"
-    return f"{significant(p * 100, 1)} %"
-
-
-def verdict(v: ValidityResult, mc: McResult, probability: float) -> Verdict:
-    """Apply the rules of the module docstring."""
-    limit = v.limit
-    p = mc.p_exceed[v.shortcut]
-    allowed = 1.0 - probability
-    lo, hi = v.working_range
-    reasons = [
-        f"error at the nominal composition {signed(v.nominal_error)} pH (limit ±{plain(limit)})",
-        f"largest |error| over the working range {_range(lo, hi)}: {fixed(v.max_abs_error)} pH at {format_concentration(v.max_abs_error_at)}",
-        f"P(|error| > {plain(limit)}) = {format_percent(p)} under the stated uncertainties (allowed {format_percent(allowed)}; {mc.draws:,} Monte-Carlo draws)",
-    ]
-    if abs(v.nominal_error) > limit:
-        return Verdict(FAIL, "", tuple(reasons))
-    whole = v.max_abs_error <= limit
-    conditions = []
-    if not whole:
-        parts = " and ".join(_range(a, b) for a, b in v.holds_within_working_range) or "no part of it"
-        conditions.append(f"holds only for {parts} of the working range {_range(lo, hi)}")
-    if p > allowed:
-        conditions.append(f"holds only at nominal inputs: with the stated uncertainties P(|error| > {plain(limit)}) = {format_percent(p)}, above the allowed {format_percent(allowed)}")
-    if not conditions:
-        return Verdict(PASS, "", tuple(reasons))
-    return Verdict(CONDITIONAL, "; ".join(conditions), tuple(reasons))
-
-
-def _composition(spec: SolutionSpec) -> str:
-    # "potassium dihydrogen phosphate (KH₂PO₄) 20 mmol/L": the form as added, then its concentration
-    parts = [
-        f"{c.compound} ({subscripted(c.formula)}) {format_concentration(c.concentration)}" if c.formula
-        else f"{c.added_as}: {format_concentration(c.concentration)}"
-        for c in spec.components
-    ]
-    if spec.strong_acid:
-        parts.append(f"strong acid {format_concentration(spec.strong_acid)}")
-    if spec.strong_base:
-        parts.append(f"strong base {format_concentration(spec.strong_base)}")
-    return ", ".join(parts)
-
-
-def justification(method: Method, spec: SolutionSpec, v: ValidityResult, exact_ph: float, exact_u: float, mc: McResult, verdict_: Verdict) -> str:
-    """A drafted paragraph for the SOP or validation report, every number filled in.
-
-    The scientist reviews and edits it; it is a draft, not a conclusion.
+    Returns
+    -------
+    Verdict
     """
-    approx = CATALOGUE[v.shortcut]
-    c = method.conditions
-    limit = v.limit
-    lo, hi = v.working_range
-    pkas = "; ".join(
-        f"pKa{j + 1} of {comp.name} {fixed(p.at_working_temperature)} ± {plain(p.uncertainty)} ({'substance table, ' if p.origin != 'method file' else ''}source {p.reference})"
-        for comp in spec.components[:1]
-        for j, p in enumerate(comp.pka)
-    )
-    p = mc.p_exceed[v.shortcut]
-    text = (
-        f"The pH of solution '{spec.id}' ({_composition(spec)}, {plain(c.temperature)} °C) is calculated in the procedure by "
-        f"the shortcut '{approx.title}' ({approx.id}). Compared with the exact solution of the charge and mass balances "
-        f"(activity model {c.activity}; {pkas}), which gives pH {fixed(exact_ph)} (standard uncertainty {fixed(exact_u)}), "
-        f"the shortcut's error at the nominal composition is {signed(v.nominal_error)} pH, and over the working range "
-        f"{_range(lo, hi)} its largest magnitude is {fixed(v.max_abs_error)} pH (at {format_concentration(v.max_abs_error_at)}), "
-        f"against the acceptance limit of ±{plain(limit)} pH. With the stated uncertainties of the pKa values, concentrations and "
-        f"temperature (Monte Carlo, {mc.draws:,} draws, seed {mc.seed}), the probability that the error exceeds the limit is "
-        f"{format_percent(p)} (required at most {format_percent(1 - method.criteria.probability)})."
-    )
-    if verdict_.status == PASS:
-        text += " The shortcut is therefore fit for this purpose over the whole working range."
-    elif verdict_.status == CONDITIONAL:
-        text += f" The shortcut is fit for purpose only under a condition: it {verdict_.condition}."
+    limit = region.limit
+    if comparison.validated:
+        used = ResultUsed.GUM
+        y, u = exact_gum.value, exact_gum.u
+        interval = (y - K95 * u, y + K95 * u)
+        p_c = float(conformity_normal(nominal_error, math.hypot(u, model.u), -limit, limit))
     else:
-        text += (
-            " The shortcut is therefore not fit for this purpose; the procedure should state the pH from the exact "
-            "calculation or from measurement."
-        )
-    text += (
-        " A calculated pH supports and does not replace measurement with a calibrated pH meter; this draft needs review "
-        "by qualified staff under the laboratory's quality system."
-    )
-    return text
+        used = ResultUsed.MONTE_CARLO
+        y, u, interval = mc.exact.mean, mc.exact.u, mc.exact.coverage
+        p_c = mc.p_conform[shortcut]
+    findings = []
+    if abs(nominal_error) > limit:
+        findings.append(Finding.NOMINAL_OUTSIDE)
+    if not region.holds_everywhere:
+        findings.append(Finding.REGION_OUTSIDE)
+    if p_c < required_probability:
+        findings.append(Finding.CONFORMITY_LOW)
+    if Finding.NOMINAL_OUTSIDE in findings or Finding.CONFORMITY_LOW in findings:
+        status = FAIL
+    elif findings:
+        status = CONDITIONAL
+    else:
+        status = PASS
+    return Verdict(status, tuple(findings), DecisionRule.SIMPLE_ACCEPTANCE, limit, required_probability, nominal_error,
+                   region, p_c, used, float(y), float(u), (float(interval[0]), float(interval[1])), model, mc.draws)

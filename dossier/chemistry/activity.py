@@ -20,6 +20,13 @@ Models (``MODELS`` maps id → :class:`ActivityModel`):
     c = 0.3 (Davies 1962) unless another coefficient is given (0.2 is the
     1938 original).
 
+Each model carries the largest ionic strength at which it is used in practice
+(``max_ionic_strength``, from :data:`dossier.limits.ACTIVITY_MODEL_RANGE`;
+limiting law 0.005, extended Debye–Hückel 0.1, Davies 0.5 mol/kg) with the
+source of that range; the ideal model has none (it is an approximation at
+every ionic strength). The engine solves beyond the range; the method-file
+checks warn there and the validity sweeps stop there.
+
 References
 ----------
 .. [1] P. Debye and E. Hückel, Phys. Z. 24, 185–206 (1923).
@@ -28,6 +35,9 @@ References
    doi:10.1351/pac196001010163
 .. [3] C. W. Davies, Ion Association (Butterworths, London, 1962), p. 41.
 .. [4] C. W. Davies, J. Chem. Soc. 1938, 2093–2098.
+.. [5] W. Stumm and J. J. Morgan, Aquatic Chemistry, 3rd ed. (Wiley, New
+   York, 1996), Table 3.3 (the ranges of the three equations; recalled from
+   memory, not checked against the book).
 """
 
 from __future__ import annotations
@@ -39,6 +49,7 @@ from enum import StrEnum
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from .. import limits
 from .errors import InputRangeError
 from .water import debye_huckel_a, debye_huckel_b
 
@@ -87,20 +98,36 @@ class ActivityModel:
         Human-readable name.
     equation : str
         The equation in LaTeX, for reports.
-    applies_to : str
-        Range of ionic strength where the model is customarily used.
+    max_ionic_strength : float or None
+        Largest ionic strength I [mol/kg] at which the model is used in
+        practice (:data:`dossier.limits.ACTIVITY_MODEL_RANGE`); None for the
+        ideal model, which has no range (an approximation everywhere).
     reference : str
-        Published source.
+        Published source of the equation.
     unit_log_gamma : callable
         ``f(sqrt_i, i, A, Ba, c)`` → log10 γ of a monovalent ion.
+    range_source : str
+        Where the range comes from (a published source, marked when recalled
+        from memory).
     """
 
     id: ActivityModelId
     title: str
     equation: str
-    applies_to: str
+    max_ionic_strength: float | None
     reference: str
     unit_log_gamma: UnitLogGamma
+    range_source: str = ""
+
+    def in_range(self, ionic_strength: float) -> bool:
+        """Whether ``ionic_strength`` [mol/kg] is within the model's range (always for the ideal model).
+
+        Examples
+        --------
+        >>> MODELS["davies"].in_range(0.4), MODELS["davies"].in_range(0.6)
+        (True, False)
+        """
+        return self.max_ionic_strength is None or ionic_strength <= self.max_ionic_strength
 
 
 def _ideal(sqrt_i, i, a, ba, c):  # noqa: ANN001, ANN202 - private kernels
@@ -119,6 +146,8 @@ def _davies(sqrt_i, i, a, ba, c):  # noqa: ANN001, ANN202
     return -a * (sqrt_i / (1.0 + sqrt_i) - c * i)
 
 
+_STUMM_MORGAN = "W. Stumm and J. J. Morgan, Aquatic Chemistry, 3rd ed. (Wiley, 1996), Table 3.3 (recalled from memory, not checked)"
+
 MODELS: dict[str, ActivityModel] = {
     m.id: m
     for m in (
@@ -126,34 +155,38 @@ MODELS: dict[str, ActivityModel] = {
             ActivityModelId.IDEAL,
             "Ideal solution (activity = concentration)",
             r"\log_{10}\gamma_i = 0",
-            "any ionic strength, as an approximation",
+            limits.ACTIVITY_MODEL_RANGE[ActivityModelId.IDEAL],
             "definition",
             _ideal,
+            "no range: an approximation at every ionic strength",
         ),
         ActivityModel(
             ActivityModelId.DEBYE_HUCKEL,
             "Debye–Hückel limiting law",
             r"\log_{10}\gamma_i = -A z_i^2 \sqrt{I}",
-            "I below about 0.005 mol/kg",
+            limits.ACTIVITY_MODEL_RANGE[ActivityModelId.DEBYE_HUCKEL],
             "P. Debye and E. Hückel, Phys. Z. 24, 185 (1923)",
             _limiting,
+            _STUMM_MORGAN,
         ),
         ActivityModel(
             ActivityModelId.EXTENDED_DEBYE_HUCKEL,
             "Extended Debye–Hückel equation",
             r"\log_{10}\gamma_i = -\frac{A z_i^2 \sqrt{I}}{1 + B\mathring{a}\sqrt{I}}",
-            "I below about 0.1 mol/kg",
+            limits.ACTIVITY_MODEL_RANGE[ActivityModelId.EXTENDED_DEBYE_HUCKEL],
             "P. Debye and E. Hückel, Phys. Z. 24, 185 (1923); Bå = 1.5 (kg/mol)^½ by the "
             "Bates–Guggenheim convention, Pure Appl. Chem. 1, 163 (1960)",
             _extended,
+            "the range of the Bates–Guggenheim convention, R. G. Bates and E. A. Guggenheim, Pure Appl. Chem. 1, 163 (1960); " + _STUMM_MORGAN,
         ),
         ActivityModel(
             ActivityModelId.DAVIES,
             "Davies equation",
             r"\log_{10}\gamma_i = -A z_i^2\left(\frac{\sqrt{I}}{1+\sqrt{I}} - c\,I\right)",
-            "I below about 0.5 mol/kg",
+            limits.ACTIVITY_MODEL_RANGE[ActivityModelId.DAVIES],
             "C. W. Davies, Ion Association (Butterworths, London, 1962), p. 41",
             _davies,
+            _STUMM_MORGAN,
         ),
     )
 }

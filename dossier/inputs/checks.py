@@ -14,7 +14,7 @@ import re
 from dataclasses import dataclass, field
 
 from .. import limits
-from ..chemistry import CATALOGUE, ActivityModelId, InputRangeError, StatedConstants
+from ..chemistry import CATALOGUE, ActivityModelId, ChemistryError, InputRangeError, StatedConstants, activity_model, equilibrium
 from ..chemistry.activity import thermodynamic_pka
 from ..chemistry.temperature import REFERENCE_TEMPERATURE, pka_at_temperature
 from ..problems import Problem, Severity
@@ -43,7 +43,7 @@ from .yamlpos import LoadedYaml
 
 __all__ = ["build_method", "CONCENTRATION_LIMITS"]
 
-CONCENTRATION_LIMITS = (1e-10, 10.0)
+CONCENTRATION_LIMITS = limits.CONCENTRATION
 """Allowed concentrations in a method file, nominal and working range [mol/L]."""
 
 Loc = tuple[str | int, ...]
@@ -114,8 +114,9 @@ def _tolerance(ctx: _Ctx, loc: Loc, text: str | None, nominal: float, molar_mass
             pct = float(m.group(1))
         except ValueError:
             pct = -1.0
-        if not 0.0 <= pct <= 50.0:
-            ctx.add(loc, f"a percentage tolerance must be 0 … 50 %; got {text!r}")
+        p_lo, p_hi = limits.PERCENT_TOLERANCE
+        if not p_lo <= pct <= p_hi:
+            ctx.add(loc, f"a percentage tolerance must be {_num(p_lo)} … {_num(p_hi)} %; got {text!r}")
             return None
         return nominal * pct / 100.0
     try:
@@ -307,6 +308,8 @@ def _component(ctx: _Ctx, loc: Loc, comp: ComponentIn, refs: set[str], condition
         molar_mass=molar_mass,
         pka=tuple(pkas),  # type: ignore[arg-type]
         formula=table_form.formula if table_form else None,
+        solubility=table_form.solubility.value if (table_form and table_form.solubility) else None,
+        solubility_source=table_form.solubility.source if (table_form and table_form.solubility) else None,
     )
 
 
@@ -353,6 +356,7 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
         if why is not None:
             ctx.add(loc + ("shortcuts", i), f"{sid} does not apply to this solution: {why}")
             ok = False
+    ok = _within_model_range(ctx, loc, spec, conditions) and ok
     return spec if ok else None
 
 
@@ -423,6 +427,54 @@ def _claims(ctx: _Ctx, loc: Loc, shortcuts: list[ShortcutIn], first: ComponentSp
             continue
         out.append(ClaimedShortcut(sc.id, stated))
     return tuple(out) if ok else None
+
+
+def _background_beyond_range(conditions: ConditionsSpec) -> bool:
+    """Whether the background ionic strength (with its tolerance) alone leaves the activity model's range."""
+    model = activity_model(conditions.activity)
+    return not model.in_range(conditions.background + conditions.background_tolerance)
+
+
+def _range_problem(ctx: _Ctx, loc: Loc, what: str, ionic_strength: float, conditions: ConditionsSpec) -> bool:
+    """Warn beyond the activity model's range, refuse beyond
+    :data:`~dossier.limits.MODEL_RANGE_REFUSAL_FACTOR` times it; False when refused."""
+    model = activity_model(conditions.activity)
+    top = model.max_ionic_strength
+    if top is None or ionic_strength <= top:
+        return True
+    name = model.title if model.title.startswith(("Davies", "Debye")) else model.title[0].lower() + model.title[1:]
+    factor = limits.MODEL_RANGE_REFUSAL_FACTOR
+    if ionic_strength > factor * top:
+        ctx.add(loc, f"{what} I = {ionic_strength:.3g} mol/kg, more than {factor:g} × the range of the {name} (I ≤ {top:g} mol/kg): "
+                     "the model does not describe this solution")
+        return False
+    ctx.warn(loc, f"{what} I = {ionic_strength:.3g} mol/kg, beyond the range of the {name} (I ≤ {top:g} mol/kg): "
+                  f"shortcuts are judged only up to I = {top:g} mol/kg")
+    return True
+
+
+def _within_model_range(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: ConditionsSpec) -> bool:
+    """The ionic strength at the upper end of the working range (the whole
+    solution scaled with the first component, solved by the engine) against
+    the activity model's range; the working range against the solubility of
+    each component's form. False when refused."""
+    first = spec.components[0]
+    lo, hi = first.working_range
+    ok = True
+    if not _background_beyond_range(conditions):
+        try:
+            ionic = float(equilibrium(spec.to_solution(conditions, scale=hi / first.concentration)).ionic_strength)
+        except ChemistryError as exc:
+            ctx.add(loc + ("components", 0, "working_range", 1), f"cannot be solved at the working range's upper end: {exc}")
+            return False
+        ok = _range_problem(ctx, loc + ("components", 0, "working_range", 1), f"at the working range's upper end ({format_concentration(hi)}) the ionic strength is", ionic, conditions)
+    for k, comp in enumerate(spec.components):
+        top = comp.concentration * hi / first.concentration
+        if comp.solubility is not None and top > comp.solubility:
+            ctx.warn(loc + ("components", k, "working_range", 1),
+                     f"the working range goes to {format_concentration(top)}, above the solubility of {comp.compound} in water at 25 °C "
+                     f"({format_concentration(comp.solubility)}, source {comp.solubility_source!r}): shortcuts are judged only up to the solubility")
+    return ok
 
 
 def _check_solutions(ctx: _Ctx, indexed: list[tuple[int, SolutionIn]], refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> list[SolutionSpec | None]:
@@ -510,10 +562,14 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     refs = set(mf.references)
     cited: set[str] = set()
     _check_ids(ctx, mf)
-    if c.temperature - c.temperature_tolerance < 0.0 or c.temperature + c.temperature_tolerance > 100.0:
-        ctx.add(("conditions", "temperature_tolerance"), f"{c.temperature:g} ± {c.temperature_tolerance:g} °C leaves the allowed 0 … 100 °C")
+    t_lo, t_hi = limits.TEMPERATURE
+    if c.temperature - c.temperature_tolerance < t_lo or c.temperature + c.temperature_tolerance > t_hi:
+        ctx.add(("conditions", "temperature_tolerance"), f"{c.temperature:g} ± {c.temperature_tolerance:g} °C leaves the allowed {_num(t_lo)} … {_num(t_hi)} °C")
     if c.background_ionic_strength_tolerance > c.background_ionic_strength:
         ctx.add(("conditions", "background_ionic_strength_tolerance"), f"± {c.background_ionic_strength_tolerance:g} mol/kg is larger than the background ionic strength itself ({c.background_ionic_strength:g} mol/kg)")
+    if _background_beyond_range(conditions):
+        _range_problem(ctx, ("conditions", "background_ionic_strength"), "the background ionic strength" + (" with its tolerance" if c.background_ionic_strength_tolerance else "") + " is",
+                      c.background_ionic_strength + c.background_ionic_strength_tolerance, conditions)
     solutions = _check_solutions(ctx, list(enumerate(mf.solutions)), refs, conditions, cited)
     for key in sorted(refs - cited):
         ctx.warn(("references", key), f"reference {key!r} is not cited by any stated value")

@@ -107,7 +107,9 @@ class ComponentSpec:
     is the id as written (a table id or the method's own name), ``name`` the
     substance's name for people, ``compound`` and ``formula`` the form as
     added (the table's compound and formula for that form; ``formula`` is
-    None for a form the table does not list).
+    None for a form the table does not list). ``solubility`` is that form's
+    solubility in water at 25 °C [mol/L] when the substance table gives one
+    (``solubility_source`` its source key), else None.
     """
 
     substance: str
@@ -126,6 +128,8 @@ class ComponentSpec:
     molar_mass: float | None
     pka: tuple[PkaValue, ...]
     formula: str | None = None
+    solubility: float | None = None
+    solubility_source: str | None = None
 
     @property
     def form_words(self) -> str:

@@ -12,6 +12,7 @@ from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, WithJsonSchema, field_validator
 
+from .. import limits
 from .forms import parse_form
 from .substances import SOURCE_KINDS
 from .units import TEMPERATURE_PATTERN, celsius, celsius_difference
@@ -58,9 +59,9 @@ def _temperature_schema(low: float, high: float) -> WithJsonSchema:
     })
 
 
-Celsius = Annotated[float, BeforeValidator(celsius), _temperature_schema(0.0, 100.0)]
+Celsius = Annotated[float, BeforeValidator(celsius), _temperature_schema(*limits.TEMPERATURE)]
 """A temperature [°C]: a plain number is °C; text may carry °C or K."""
-CelsiusDifference = Annotated[float, BeforeValidator(celsius_difference), _temperature_schema(0.0, 20.0)]
+CelsiusDifference = Annotated[float, BeforeValidator(celsius_difference), _temperature_schema(*limits.TEMPERATURE_TOLERANCE)]
 """A temperature difference [°C = K]: a plain number, or text with °C or K."""
 
 Text = Annotated[str, Field(min_length=1, max_length=10_000)]
@@ -98,12 +99,12 @@ class Acceptance(_Model):
     """The acceptance criterion of the shortcut."""
 
     max_ph_error: float = Field(
-        gt=0.0, le=2.0, allow_inf_nan=False, json_schema_extra=_unit("pH"),
+        gt=limits.MAX_PH_ERROR[0], le=limits.MAX_PH_ERROR[1], allow_inf_nan=False, json_schema_extra=_unit("pH"),
         description="Largest tolerated |shortcut pH − exact pH| over the working range.",
     )
     probability: float = Field(
-        0.95, ge=0.5, le=0.9999, allow_inf_nan=False,
-        description="Required probability that |error| stays within max_ph_error when the inputs vary within their uncertainties (Monte-Carlo verdict).",
+        0.95, ge=limits.PROBABILITY[0], le=limits.PROBABILITY[1], allow_inf_nan=False,
+        description="Required conformity probability that the shortcut's pH lies within max_ph_error of the true pH, given the uncertainty of the exact pH (simple acceptance, JCGM 106:2012).",
     )
 
 
@@ -111,11 +112,11 @@ class Conditions(_Model):
     """Conditions of use, common to every solution of the method."""
 
     temperature: Celsius = Field(
-        25.0, ge=0.0, le=100.0, allow_inf_nan=False, json_schema_extra=_unit("°C"),
+        25.0, ge=limits.TEMPERATURE[0], le=limits.TEMPERATURE[1], allow_inf_nan=False, json_schema_extra=_unit("°C"),
         description="Working temperature: a number of °C, or text with its unit ('20 °C', '293.15 K').",
     )
     temperature_tolerance: CelsiusDifference = Field(
-        0.0, ge=0.0, le=20.0, allow_inf_nan=False, json_schema_extra=_unit("°C"),
+        0.0, ge=limits.TEMPERATURE_TOLERANCE[0], le=limits.TEMPERATURE_TOLERANCE[1], allow_inf_nan=False, json_schema_extra=_unit("°C"),
         description="Half-width of the allowed temperature range (± value; a number of °C, or '2 °C', '2 K'), treated as a rectangular distribution.",
     )
     activity_model: ActivityId = Field(
@@ -123,11 +124,11 @@ class Conditions(_Model):
         description="Activity model of the exact calculation: ideal, debye-huckel, extended-debye-huckel or davies (coefficient 0.3).",
     )
     background_ionic_strength: float = Field(
-        0.0, ge=0.0, le=5.0, allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
+        0.0, ge=limits.BACKGROUND[0], le=limits.BACKGROUND[1], allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
         description="Ionic strength of an inert 1:1 electrolyte in the solution (e.g. 0.15 for 0.15 mol/kg NaCl).",
     )
     background_ionic_strength_tolerance: float = Field(
-        0.0, ge=0.0, le=5.0, allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
+        0.0, ge=limits.BACKGROUND[0], le=limits.BACKGROUND[1], allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
         description="Half-width of the allowed background ionic strength (± value), rectangular distribution.",
     )
 
@@ -136,22 +137,22 @@ class PkaIn(_Model):
     """One ionization step's pKa, with its uncertainty and where it came from."""
 
     value: float | None = Field(
-        None, ge=-2.0, le=16.0, allow_inf_nan=False,
+        None, ge=limits.PKA_STATED[0], le=limits.PKA_STATED[1], allow_inf_nan=False,
         description="pKa as stated by the source. Leave out to take the value of the substance table.",
     )
     uncertainty: float = Field(
-        ge=0.0, le=2.0, allow_inf_nan=False,
+        ge=limits.PKA_UNCERTAINTY[0], le=limits.PKA_UNCERTAINTY[1], allow_inf_nan=False,
         description="Standard uncertainty of the pKa (always stated, never guessed from the digits).",
     )
     distribution: Literal["normal", "rectangular"] = Field(
         "normal", description="Distribution of the pKa for the Monte-Carlo propagation; for rectangular, the half-width is √3 × uncertainty.",
     )
     temperature: Celsius = Field(
-        25.0, ge=0.0, le=100.0, allow_inf_nan=False, json_schema_extra=_unit("°C"),
+        25.0, ge=limits.TEMPERATURE[0], le=limits.TEMPERATURE[1], allow_inf_nan=False, json_schema_extra=_unit("°C"),
         description="Temperature at which the stated value holds: a number of °C, or text with its unit ('37 °C', '310.15 K').",
     )
     ionic_strength: float = Field(
-        0.0, ge=0.0, le=5.0, allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
+        0.0, ge=limits.BACKGROUND[0], le=limits.BACKGROUND[1], allow_inf_nan=False, json_schema_extra=_unit("mol/kg"),
         description="Ionic strength at which the stated value holds (0: thermodynamic). Otherwise the value is converted to I = 0 with the method's activity model, by its convention.",
     )
     convention: Literal["mixed", "concentration"] = Field(
@@ -159,11 +160,11 @@ class PkaIn(_Model):
         description="For a value stated at I > 0: 'mixed' (a(H⁺)·[A]/[HA], as measured with a pH meter) or 'concentration' ([H⁺][A]/[HA]).",
     )
     enthalpy: float | None = Field(
-        None, ge=-300.0, le=300.0, allow_inf_nan=False, json_schema_extra=_unit("kJ/mol"),
+        None, ge=limits.ENTHALPY[0], le=limits.ENTHALPY[1], allow_inf_nan=False, json_schema_extra=_unit("kJ/mol"),
         description="Standard enthalpy of ionization, for van 't Hoff. Leave out to take the table's value (when the pKa is from the table).",
     )
     heat_capacity: float | None = Field(
-        None, ge=-2000.0, le=2000.0, allow_inf_nan=False, json_schema_extra=_unit("J/(K·mol)"),
+        None, ge=limits.HEAT_CAPACITY[0], le=limits.HEAT_CAPACITY[1], allow_inf_nan=False, json_schema_extra=_unit("J/(K·mol)"),
         description="Standard heat-capacity change of ionization.",
     )
     reference: str | None = Field(None, description="Key of the reference (under references:) that gives the stated value.")
@@ -190,11 +191,11 @@ class ComponentIn(_Model):
         description="[lowest, highest] concentration the method covers; the whole solution is diluted or concentrated together.",
     )
     molar_mass: float | None = Field(
-        None, gt=0.0, le=5000.0, allow_inf_nan=False, json_schema_extra=_unit("g/mol"),
+        None, gt=limits.MOLAR_MASS[0], le=limits.MOLAR_MASS[1], allow_inf_nan=False, json_schema_extra=_unit("g/mol"),
         description="Molar mass of the form as added, for mass units (default: from the table's formula for that form).",
     )
-    charge: int | None = Field(None, ge=-6, le=6, description="Charge of the fully protonated form (0 acetic acid, +1 ammonium). Taken from the table for table substances.")
-    pka: list[PkaIn] = Field(min_length=1, max_length=6, description="One entry per ionization step, in order.")
+    charge: int | None = Field(None, ge=limits.CHARGE[0], le=limits.CHARGE[1], description="Charge of the fully protonated form (0 acetic acid, +1 ammonium). Taken from the table for table substances.")
+    pka: list[PkaIn] = Field(min_length=1, max_length=limits.MAX_STEPS, description="One entry per ionization step, in order.")
 
     @field_validator("form", mode="before")
     @classmethod

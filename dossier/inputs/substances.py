@@ -73,12 +73,17 @@ class TableStep:
 
 @dataclass(frozen=True)
 class TableForm:
-    """A compound in which the substance is added: protons removed, name, formula, molar mass [g/mol]."""
+    """A compound in which the substance is added: protons removed, name, formula, molar mass [g/mol].
+
+    ``solubility`` is the compound's solubility in water at 25 °C [mol/L]
+    with its source and status, where the table gives one (None otherwise).
+    """
 
     removed: int
     compound: str
     formula: str
     molar_mass: float
+    solubility: TableValue | None = None
 
 
 @dataclass(frozen=True)
@@ -147,6 +152,8 @@ def load_table() -> SubstanceTable:
     TableValue(value=4.757, source='nist46', status='unverified')
     >>> t.get("phosphoric-acid").form(1).molar_mass
     136.084
+    >>> t.get("benzoic-acid").form(0).solubility.value  # mol/L at 25 °C
+    0.0278
     """
     raw = resources.files("dossier").joinpath("data/substances.yaml").read_bytes()
     data = yaml.safe_load(raw)
@@ -163,11 +170,16 @@ def load_table() -> SubstanceTable:
             TableStep(_value(st, "pka"), _value(st, "enthalpy"), _value(st, "heat_capacity"))  # type: ignore[arg-type]
             for st in s["steps"]
         )
-        forms = tuple(TableForm(f["removed"], f["compound"], f["formula"], molar_mass(f["formula"])) for f in s["forms"])
+        forms = tuple(TableForm(f["removed"], f["compound"], f["formula"], molar_mass(f["formula"]), _value(f, "solubility")) for f in s["forms"])
         for st in steps:
             for v in (st.pka, st.enthalpy, st.heat_capacity):
                 if v is not None and (v.source not in sources or v.status not in STATUSES):
                     raise ValueError(f"substances.yaml: substance {s['id']!r} cites source {v.source!r} with status {v.status!r}; "
                                      f"sources: {', '.join(sources)}; statuses: {', '.join(STATUSES)}")
+        for f in forms:
+            v = f.solubility
+            if v is not None and (v.source not in sources or v.status not in STATUSES or not v.value > 0.0):
+                raise ValueError(f"substances.yaml: form {f.compound!r} of {s['id']!r} has solubility {v.value!r} from source {v.source!r} "
+                                 f"with status {v.status!r}; a positive number [mol/L], sources: {', '.join(sources)}; statuses: {', '.join(STATUSES)}")
         substances[s["id"]] = Substance(s["id"], s["name"], int(s["charge"]), steps, forms, s.get("note", ""))
     return SubstanceTable(substances, sources, hashlib.sha256(raw).hexdigest(), len(raw))

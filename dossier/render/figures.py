@@ -39,6 +39,7 @@ from matplotlib.ticker import Formatter, FuncFormatter, LogLocator, MaxNLocator,
 
 from .. import __version__  # noqa: E402
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis  # noqa: E402
+from ..display import fixed, signed, significant  # noqa: E402
 from ..inputs.units import format_concentration  # noqa: E402
 
 __all__ = ["PALETTE", "FIGURE_KINDS", "FigureFile", "draw_figure", "method_figures", "figure_bytes", "power_of_ten", "plain_number", "PlainTicks"]
@@ -52,6 +53,7 @@ PALETTE = {
     "grey": "#7d838c",
     "band": "#d9e4ee",
     "range": "#f2e2c4",
+    "outside": "#c9ccd1",
 }
 """The dossier's colours: ink for text and axes, four series colours, fills."""
 
@@ -283,11 +285,25 @@ def _plain_axis(axis, nbins: int = 7) -> None:  # noqa: ANN001
     axis.set_major_formatter(PlainTicks())
 
 
+def _short(name: str) -> str:
+    """A substance's name without its explanation in brackets, for an axis label:
+    ``TRIS (tris(hydroxymethyl)aminomethane)`` → ``TRIS``."""
+    return name.split(" (", 1)[0]
+
+
 def _band(ax, limit: float) -> None:  # noqa: ANN001
     ax.axhspan(-limit, limit, color=PALETTE["band"], zorder=0, label=f"acceptance band ±{limit:g} pH")
     for y in (-limit, limit):
         ax.axhline(y, color=PALETTE["blue"], lw=0.8, ls=(0, (4, 2)), zorder=1)
     ax.axhline(0.0, color=PALETTE["ink"], lw=0.6, zorder=1)
+
+
+def _outside(ax, parts: tuple[tuple[float, float], ...], transform=None) -> None:  # noqa: ANN001
+    """Shade the parts of a sweep outside the model's range (or above a solubility): grey, cross-hatched, one legend entry."""
+    for n, (a, b) in enumerate(parts):
+        a, b = (transform(a), transform(b)) if transform else (a, b)
+        ax.axvspan(a, b, facecolor=PALETTE["outside"], edgecolor=PALETTE["grey"], hatch="\\\\", lw=0.0, alpha=0.55, zorder=0.5,
+                   label="outside the model's range (not judged)" if n == 0 else None)
 
 
 def _ylim(limit: float, focus: float) -> tuple[float, float]:
@@ -304,6 +320,7 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
     _band(ax, limit)
     lo, hi = v.working_range
     ax.axvspan(lo, hi, facecolor=PALETTE["range"], edgecolor=PALETTE["orange"], hatch="///", lw=0.0, alpha=0.6, zorder=0, label="working range")
+    _outside(ax, sw.outside)
     for n, (name, values) in enumerate(sw.parts.items(), start=1):
         color, ls, _ = SERIES[n % len(SERIES)]
         ax.plot(sw.x, values, color=PALETTE[color], ls=ls, lw=1.0, label=f"part: {name}")
@@ -314,7 +331,7 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
     _log_axis(ax.xaxis)
     _plain_axis(ax.yaxis)
     ax.set_ylim(*_ylim(limit, v.max_abs_error))
-    ax.set_xlabel(f"total concentration of {sa.spec.components[0].substance} (whole solution scaled) / (mol/L)")
+    ax.set_xlabel(f"total concentration of {_short(sa.spec.components[0].name)} (whole solution scaled) / (mol/L)")
     ax.set_ylabel("error, shortcut pH − exact pH")
     ax.set_title(f"{sa.spec.id}: {s.title}")
     _arrange(fig, below=_legend_below(fig, ax))
@@ -323,8 +340,10 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
         f"Error of {s.id} against concentration for solution {sa.spec.id}, from {format_concentration(v.concentration_span[0])} "
         f"to {format_concentration(v.concentration_span[1])}. Within the working range {format_concentration(lo)} – {format_concentration(hi)} "
         f"the largest |error| is {v.max_abs_error:.3f} pH; the limit is ±{limit:g} pH; it holds within the working range for: {holds}."
+        + (f" Above {format_concentration(v.concentration_cut)} the sweep is outside the model's range and not judged." if v.concentration_cut is not None else "")
     )
-    return fig, alt, "Error against concentration, with the working range (hatched) and the acceptance band."
+    caption = "Error against concentration, with the working range (hatched) and the acceptance band"
+    return fig, alt, caption + ("; grey: outside the model's range (not judged)." if sw.outside else ".")
 
 
 def _error_vs_pka(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
@@ -342,11 +361,11 @@ def _error_vs_pka(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tu
     ax.set_ylim(-5.0 * limit, 5.0 * limit)
     _plain_axis(ax.xaxis)
     _plain_axis(ax.yaxis)
-    ax.set_xlabel(f"pKa{step + 1} of {sa.spec.components[comp].substance} (25 °C, I = 0)")
+    ax.set_xlabel(f"pKa{step + 1} of {_short(sa.spec.components[comp].name)} (25 °C, I = 0)")
     ax.set_ylabel("error, shortcut pH − exact pH")
     ax.set_title(f"{sa.spec.id}: error against pKa at several concentrations")
     _arrange(fig, below=_legend_below(fig, ax, title="total of first component"))
-    ranges = "; ".join(f"{iv.low:.2f} – {iv.high:.2f}" for iv in s.validity.pka_intervals) or "none"
+    ranges = "; ".join(f"{fixed(iv.low, 2)} – {fixed(iv.high, 2)}" for iv in s.validity.pka_intervals) or "none"
     alt = f"Error of {s.id} against pKa{step + 1} for {len(cv.concentrations)} concentrations; at the nominal concentration it holds for pKa {ranges}."
     return fig, alt, "Error against pKa at 1/100, 1/10, 1, 10 and 100 times the nominal concentration (where allowed)."
 
@@ -366,21 +385,23 @@ def _error_map(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple
     ax.plot([mp.nominal[1]], [mp.nominal[0]], marker="*", ms=13, mfc="white", mec=PALETTE["ink"], mew=1.2, ls="none", label="this method")
     lo, hi = s.validity.working_range
     ax.plot(np.log10([lo, hi]), [mp.nominal[0]] * 2, color=PALETTE["ink"], lw=3, solid_capstyle="butt", label="working range")
+    if s.validity.concentration_cut is not None:  # at the nominal pKa; the map's other pKa values move the ionic strength little
+        _outside(ax, ((s.validity.concentration_cut, 10.0 ** mp.log_c[-1]),), np.log10)
     cb = fig.colorbar(img, ax=ax, extend="both", format=PlainTicks())
     cb.set_label(f"error / pH (clipped at ±{vmax:g})")
     comp, step = s.validity.pka_step
     _plain_axis(ax.xaxis)
     _plain_axis(ax.yaxis)
-    ax.set_xlabel(f"log10(total of {sa.spec.components[0].substance} / (mol/L))")
+    ax.set_xlabel(f"log10(total of {_short(sa.spec.components[0].name)} / (mol/L))")
     ax.set_ylabel(f"pKa{step + 1} (25 °C, I = 0)")
     ax.set_title(f"{sa.spec.id}: {s.id}, error map (solid +{limit:g}, dashed {MINUS}{limit:g})")
     ax.grid(False)
     _arrange(fig, plot=(_PLOT[0], 3.2), below=_legend_below(fig, ax))
     inside = float(np.mean(np.abs(mp.error) <= limit)) * 100
     alt = (
-        f"Map of the error of {s.id} over pKa{step + 1} from {mp.pka[0]:.1f} to {mp.pka[-1]:.1f} and log10 concentration from "
-        f"{mp.log_c[0]:.1f} to {mp.log_c[-1]:.1f}; the error is within ±{limit:g} pH on {inside:.0f} % of the map. "
-        f"The method's point is at pKa {mp.nominal[0]:.2f}, log10 c {mp.nominal[1]:.2f}, where the error is {s.error:+.3f} pH."
+        f"Map of the error of {s.id} over pKa{step + 1} from {fixed(mp.pka[0], 1)} to {fixed(mp.pka[-1], 1)} and log10 concentration from "
+        f"{fixed(mp.log_c[0], 1)} to {fixed(mp.log_c[-1], 1)}; the error is within ±{limit:g} pH on {inside:.0f} % of the map. "
+        f"The method's point is at pKa {fixed(mp.nominal[0], 2)}, log10 c {fixed(mp.nominal[1], 2)}, where the error is {signed(s.error, 3)} pH."
     )
     return fig, alt, "Error over pKa and concentration; contours at the acceptance limits; the star is the method."
 
@@ -407,11 +428,11 @@ def _histogram(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple
     p = mc.p_exceed[s.id]
     ax.set_xlabel("error, shortcut pH − exact pH" + (f"  (the limits ±{limit:g} pH lie outside this window)" if zoom else ""))
     ax.set_ylabel("probability density / (1/pH)")
-    ax.set_title(f"{sa.spec.id}: {s.id}, {mc.draws:,} draws, P(|error| > {limit:g}) = {p:.3g}")
+    ax.set_title(f"{sa.spec.id}: {s.id}, {mc.draws:,} draws, P(|error| > {limit:g}) = {significant(p, 3)}")
     _arrange(fig, plot=(_PLOT[0], 2.3), below=_legend_below(fig, ax))
     alt = (
-        f"Histogram of the error of {s.id} over {mc.draws:,} Monte-Carlo draws: mean {d.mean:+.4f} pH, standard deviation {d.u:.4f}, "
-        f"95 % coverage interval {d.coverage[0]:+.4f} to {d.coverage[1]:+.4f} pH; probability beyond ±{limit:g} pH {p:.3g}."
+        f"Histogram of the error of {s.id} over {mc.draws:,} Monte-Carlo draws: mean {signed(d.mean, 4)} pH, standard deviation {fixed(d.u, 4)}, "
+        f"95 % coverage interval {signed(d.coverage[0], 4)} to {signed(d.coverage[1], 4)} pH; probability beyond ±{limit:g} pH {significant(p, 3)}."
     )
     return fig, alt, "Distribution of the shortcut's error under the stated input uncertainties."
 
@@ -430,7 +451,7 @@ def _contribution_bars(ax: Axes, g, title: str, colour: str, hatch: str | None) 
     _plain_axis(ax.xaxis, nbins=5)
     ax.set_xlabel("contribution / pH (input moved by ±u)")
     ax.set_title(f"{title}, u = {plain_number(float(f'{g.u:.3g}'))} pH", fontsize=9)
-    return [f"{c.label} {c.contribution:.2g}" for c in g.contributions[:3]]
+    return [f"{c.label} {significant(c.contribution, 2)}" for c in g.contributions[:3]]
 
 
 def _contributions(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:

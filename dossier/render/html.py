@@ -15,8 +15,10 @@ from markdown_it import MarkdownIt
 from markupsafe import Markup
 
 from .. import display
-from ..analysis.verdicts import VerdictStatus, format_percent
+from ..analysis.verdicts import VerdictStatus
+from ..layout import LAYOUT
 from ..inputs.units import format_concentration
+from .prose import format_percent, prose, status_words
 
 __all__ = ["environment", "render", "markdown", "templates_dir", "reference_key", "CAUTIONS", "STATUS_MARK"]
 
@@ -76,10 +78,13 @@ def environment() -> jinja2.Environment:
             "pct": format_percent,
             "conc": format_concentration,
             "mark": lambda status: STATUS_MARK.get(status, "?"),
+            "words": status_words,
             "refkey": reference_key,
         }
     )
     env.globals["cautions"] = CAUTIONS
+    env.globals["layout"] = LAYOUT  # every path of the dossier, relative to its root
+    env.globals["prose"] = prose
     return env
 
 

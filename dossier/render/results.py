@@ -15,9 +15,13 @@ from .. import __version__
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
 from ..analysis.montecarlo import Comparison, Summary
 from ..analysis.sensitivity import GumResult
+from ..analysis.region import RegionPoint
 from ..analysis.validity import Interval, Sweep
+from ..analysis.verdicts import Verdict
+from ..inputs.model import Method
 from ..chemistry.activity import BATES_GUGGENHEIM_BA, DAVIES_COEFFICIENT
 from ..chemistry.solver import TOLERANCE
+from .prose import prose
 
 __all__ = ["RESULTS_FORMAT", "results_document", "csv_tables"]
 
@@ -26,6 +30,24 @@ RESULTS_FORMAT = "ph-dossier-results/1"
 
 def _intervals(ivs: tuple[Interval, ...]) -> list[list[float]]:
     return [[iv.low, iv.high] for iv in ivs]
+
+
+def _interval_objects(ivs: tuple[Interval, ...]) -> list[dict[str, Any]]:
+    """Each interval with its ends' ionic strengths and what bounds it."""
+    return [
+        {
+            "low": iv.low,
+            "high": iv.high,
+            "ionic_strength_low": iv.ionic_strength_low,
+            "ionic_strength_high": iv.ionic_strength_high,
+            "without_compensating_errors": iv.without_compensating_errors,
+            "low_is_sweep_end": iv.low_is_sweep_end,
+            "high_is_sweep_end": iv.high_is_sweep_end,
+            "low_is_cut": iv.low_is_cut,
+            "high_is_cut": iv.high_is_cut,
+        }
+        for iv in ivs
+    ]
 
 
 def _comparison(c: Comparison) -> dict[str, Any]:
@@ -60,7 +82,35 @@ def _distribution(d: Summary) -> dict[str, Any]:
     return {"mean": d.mean, "u": d.u, "coverage_95": list(d.coverage)}
 
 
-def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
+def _point(p: RegionPoint) -> dict[str, Any]:
+    return {"total_mol_per_l": p.concentration, "temperature_c": p.temperature, "background_ionic_strength": p.background, "error": p.error}
+
+
+def _decision(v: Verdict) -> dict[str, Any]:
+    r = v.region
+    return {
+        "rule": v.rule,
+        "findings": [str(f) for f in v.findings],
+        "limit": v.limit,
+        "required_probability": v.required_probability,
+        "conformity_probability": v.conformity,
+        "result_used": v.result_used,
+        "exact_ph": v.exact_ph,
+        "exact_u_inputs": v.exact_u,
+        "exact_interval_95": list(v.exact_interval),
+        "model_uncertainty": {"u": v.model.u, "ionic_strength": v.model.ionic_strength, "source": v.model.source},
+        "operating_region": {
+            "total_mol_per_l": list(r.concentration),
+            "temperature_c": list(r.temperature),
+            "background_ionic_strength": list(r.background),
+            "worst": _point(r.worst),
+            "corners": [_point(c) for c in r.corners],
+            "holds_mol_per_l": [list(h) for h in r.holds],
+        },
+    }
+
+
+def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis, method: Method) -> dict[str, Any]:
     v = s.validity
     out: dict[str, Any] = {
         "id": s.id,
@@ -74,6 +124,16 @@ def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
         "validity_pka": _intervals(v.pka_intervals),
         "validity_pka_robust": [iv.robust for iv in v.pka_intervals],
         "validity_pka_step": {"component": v.pka_step[0], "step": v.pka_step[1] + 1},
+        "validity_total_intervals": _interval_objects(v.concentration_intervals),
+        "validity_pka_intervals": _interval_objects(v.pka_intervals),
+        "model_range": {
+            "max_ionic_strength_mol_per_kg": v.max_ionic_strength,
+            "cut_total_mol_per_l": v.model_range_cut,
+            "solubility_cut_total_mol_per_l": v.solubility_cut,
+            "solubility_component": v.solubility_component,
+            "outside_total_mol_per_l": [list(p) for p in v.concentration_sweep.outside],
+            "outside_pka": [list(p) for p in v.pka_sweep.outside],
+        },
         "max_abs_error_working_range": v.max_abs_error,
         "max_abs_error_at_total_mol_per_l": v.max_abs_error_at,
         "holds_within_working_range_mol_per_l": [list(p) for p in v.holds_within_working_range],
@@ -84,12 +144,15 @@ def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis) -> dict[str, Any]:
         out["constants_stated"] = {"pka": list(cu.stated_pka), "pkw": cu.stated_pkw}
     if s.claimed:
         mc = sa.monte_carlo
+        vd: Verdict = s.verdict  # type: ignore[assignment]
+        words = prose(method, sa, s)
         out.update(
             {
-                "verdict": s.verdict.status,  # type: ignore[union-attr]
-                "condition": s.verdict.condition,  # type: ignore[union-attr]
-                "reasons": list(s.verdict.reasons),  # type: ignore[union-attr]
-                "justification": s.justification,
+                "verdict": vd.status,
+                "condition": words.condition,
+                "reasons": list(words.reasons),
+                "justification": words.justification,
+                "decision": _decision(vd),
                 "gum": _gum(s.gum),  # type: ignore[arg-type]
                 "monte_carlo": {
                     "draws": mc.draws,
@@ -171,8 +234,8 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
             "monte_carlo": _distribution(sa.monte_carlo.exact),
             "gum_vs_monte_carlo": _comparison(sa.comparison),
         },
-        "approximations": [_shortcut(sa, s) for s in sa.shortcuts],
-        "appendix": [_shortcut(sa, s) for s in sa.appendix],
+        "approximations": [_shortcut(sa, s, analysis.method) for s in sa.shortcuts],
+        "appendix": [_shortcut(sa, s, analysis.method) for s in sa.appendix],
         "data_quality": [
             {
                 "component": q.flag.component,
@@ -244,13 +307,15 @@ def csv_tables(analysis: MethodAnalysis) -> dict[str, str]:
         for s in sa.shortcuts + sa.appendix:
             v = s.validity
             for kind, ivs in (("total_mol_per_l", v.concentration_intervals), ("pka", v.pka_intervals)):
-                validity_rows += [[sa.spec.id, s.id, "claimed" if s.claimed else "appendix", kind, iv.low, iv.high, iv.robust] for iv in ivs]
+                validity_rows += [[sa.spec.id, s.id, "claimed" if s.claimed else "appendix", kind, iv.low, iv.high, iv.robust,
+                                  iv.ionic_strength_low, iv.ionic_strength_high, iv.high_is_cut] for iv in ivs]
             if s.claimed and s.gum is not None:
                 sens_rows += [[sa.spec.id, f"error of {s.id}", c.key, c.label, c.unit, c.u, c.coefficient, c.contribution] for c in s.gum.contributions]
                 names, rows = _sweep_rows(v.concentration_sweep)
                 out[f"{sa.spec.id}-{s.id}-concentration-sweep.csv"] = _csv(["total_mol_per_l", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
                 names, rows = _sweep_rows(v.pka_sweep)
                 out[f"{sa.spec.id}-{s.id}-pka-sweep.csv"] = _csv(["pka", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
-    out["validity.csv"] = _csv(["solution", "shortcut", "role", "range_of", "low", "high", "robust"], validity_rows)
+    out["validity.csv"] = _csv(["solution", "shortcut", "role", "range_of", "low", "high", "robust",
+                                     "ionic_strength_low", "ionic_strength_high", "high_is_cut"], validity_rows)
     out["sensitivity.csv"] = _csv(["solution", "quantity", "input", "label", "unit", "u", "coefficient", "contribution"], sens_rows)
     return dict(sorted(out.items()))

@@ -17,6 +17,8 @@ from dossier.render.results import csv_tables, results_document
 from dossier.inputs.loader import load_method
 from dossier.inputs.substances import load_table
 from dossier.render.figures import method_figures
+from dossier.render.prose import prose
+from dossier.inputs.units import format_concentration
 
 from tests.builders import MethodBuilder
 
@@ -40,7 +42,14 @@ def verdicts(a) -> dict[str, str]:  # noqa: ANN001
     [
         ("benzoate-extract", {"weak-acid-square-root": "pass"}),
         ("boric-rinse", {"weak-acid-square-root": "conditional", "weak-acid-water-corrected": "pass"}),
-        ("formic-mobile-phase", {"weak-acid-square-root": "conditional", "weak-acid-quadratic": "pass"}),
+        # the square root errs by −0.019 at nominal against ±0.02: conformity probability far below 95 %
+        ("formic-mobile-phase", {"weak-acid-square-root": "fail", "weak-acid-quadratic": "pass"}),
+        # u(pH) of the exact value 0.056 (±3 °C on ΔH°) against ±0.02: must not meet the criterion
+        ("ammonia-reagent", {"weak-base-square-root": "fail"}),
+        # error +0.086 at nominal against ±0.1, u(pH) 0.02: conformity probability about 72 %
+        ("acetate-salt-diluent", {"conjugate-base-square-root": "fail"}),
+        # ampholyte mean −0.009 against ±0.02 with u(pH) 0.018: about 65 %
+        ("glycine-diluent", {"ampholyte-mean": "fail"}),
         ("tris-buffer-37c", {"henderson-hasselbalch": "fail", "constants-at-25c": "fail"}),
         ("saline-phosphate-buffer", {"henderson-hasselbalch": "fail", "ideal-activity": "fail"}),
     ],
@@ -49,39 +58,53 @@ def test_demo_verdicts(name: str, expected: dict[str, str]) -> None:
     assert verdicts(demo(name)) == expected
 
 
-def test_conditional_states_the_part_of_the_working_range() -> None:
-    s = next(s for s in demo("formic-mobile-phase").solutions[0].shortcuts if s.id == "weak-acid-square-root")
-    assert s.verdict.condition.startswith("holds only for 23.4 mmol/L – 50 mmol/L of the working range 5 mmol/L – 50 mmol/L")
+def test_restricted_range_states_the_part_of_the_working_range() -> None:
+    a = demo("boric-rinse")
+    sa = a.solutions[0]
+    s = next(s for s in sa.shortcuts if s.id == "weak-acid-square-root")
+    assert s.verdict.status == "conditional"
+    (low, high), = s.verdict.region.holds
+    assert high == pytest.approx(5e-3) and 1.2e-4 < low < 1.8e-4  # the dilute end fails
+    words = prose(a.method, sa, s)
+    assert words.words == "meets it within a restricted range"
+    assert words.condition.startswith(f"within the limit only for {format_concentration(low)} – 5 mmol/L of the working range 50 µmol/L – 5 mmol/L")
 
 
-def test_conditional_only_at_nominal_inputs() -> None:
-    # TRIS at 26 ± 2 °C with the 25 °C constants: fine at 26 °C, not over the tolerance.
+def test_holds_at_nominal_but_too_uncertain_does_not_meet_it() -> None:
+    # TRIS at 26 ± 2 °C with the 25 °C constants: fine at 26 °C, but the true pH moves
+    # about 0.03 pH/K: the conformity probability of ±0.04 is far below 95 %.
     comp = tris_buffer("50 mmol/L", "40 mmol/L", "60 mmol/L", 0.001)
     m = MethodBuilder(limit=0.04, temperature=26.0, temperature_tolerance=2.0).solution(*comp, shortcuts=["constants-at-25c"]).build()
     a = analyse_method(m, FAST)
     (s,) = a.solutions[0].shortcuts
-    assert s.verdict.status == "conditional"
-    assert "holds only at nominal inputs" in s.verdict.condition
-    assert a.solutions[0].monte_carlo.p_exceed["constants-at-25c"] > 0.05
+    assert abs(s.verdict.nominal_error) < 0.04
+    assert s.verdict.status == "fail" and s.verdict.conformity < 0.95
+    assert "conformity-below-required" in s.verdict.findings
+    assert abs(s.verdict.worst.temperature - 26.0) == pytest.approx(2.0)  # the worst point is at an edge of the tolerance
 
 
 def test_justification_has_every_number_and_the_cautions() -> None:
     a = demo("benzoate-extract")
     s = a.solutions[0].shortcuts[0]
-    text = s.justification
+    text = prose(a.method, a.solutions[0], s).justification
     assert s.error < 0  # the check below is about the sign of a negative number
     # numbers are written as on the pages: U+2212 minus, never a hyphen-minus
     assert display.signed(s.error, 3) in text and display.MINUS in text and f"{s.error:+.3f}" not in text
-    assert f"{s.validity.max_abs_error:.3f}" in text
-    assert "±0.05 pH" in text and "20,000 draws" in text and f"seed {FAST.seed}" in text
+    assert display.fixed(abs(s.verdict.worst.error)) in text
+    assert "±0.05 pH" in text and "conformity probability" in text and "simple acceptance" in text
     assert "does not replace measurement" in text and "qualified staff" in text
-    assert "fit for this purpose over the whole working range" in text
+    assert "meets the criterion over the whole operating region" in text
+    # it quotes the result the verdict used, never the other one
+    if s.verdict.result_used == "gum":
+        assert "GUM, 95 % interval" in text and "Monte Carlo, " not in text
+    else:
+        assert f"{FAST.draws:,} draws" in text and "the GUM result is not validated and not used" in text
 
 
 def test_justification_and_input_labels_name_the_forms_as_added() -> None:
     a = demo("phosphate-buffer-hh")
     sa = a.solutions[0]
-    text = sa.shortcuts[0].justification
+    text = prose(a.method, sa, sa.shortcuts[0]).justification
     # the two forms of phosphoric acid, by name and formula as the substance table gives them
     assert "potassium dihydrogen phosphate (KH₂PO₄) 20 mmol/L" in text
     assert "disodium hydrogen phosphate (anhydrous) (Na₂HPO₄) 20 mmol/L" in text
@@ -106,6 +129,13 @@ def test_results_document_has_the_documented_keys() -> None:
     for ap in sol["approximations"]:
         assert set(ap) >= {"id", "ph", "error", "verdict", "validity_total_mol_per_l", "validity_pka", "max_abs_error_working_range", "monte_carlo"}
         assert set(ap["monte_carlo"]) >= {"draws", "seed", "error_coverage", "p_exceed"}
+        assert ap["verdict"] in {"pass", "conditional", "fail"} and isinstance(ap["justification"], str) and ap["reasons"]
+        d = ap["decision"]
+        assert d["rule"] == "simple-acceptance" and d["result_used"] in {"gum", "monte-carlo"}
+        assert 0.0 <= d["conformity_probability"] <= 1.0
+        worst = d["operating_region"]["worst"]
+        assert set(worst) == {"total_mol_per_l", "temperature_c", "background_ionic_strength", "error"}
+        assert 36.5 <= worst["temperature_c"] <= 37.5  # tris-buffer-37c: 37 ± 0.5 °C
     # the pKa echoed is the thermodynamic value at the working temperature (37 °C)
     assert sol["components"][0]["pka"][0] == pytest.approx(7.75, abs=0.01)
     assert sol["appendix"], "every other applicable shortcut is in the appendix"

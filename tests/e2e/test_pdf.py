@@ -12,7 +12,7 @@ from pypdf import PdfReader
 from ..conftest import require_executable
 from .conftest import method_ids
 
-VERDICTS = ("pass", "conditional", "fail")
+VERDICTS = ("meets the criterion", "restricted range", "does not meet it")  # the words of dossier.render.prose
 
 
 def text_of(path: Path) -> tuple[str, int]:

@@ -155,7 +155,7 @@ def test_every_gum_validated_cell_is_explained(built: Path) -> None:
         assert text.count("GUM validated: the GUM interval") == flags.count(True), mid
         assert text.count("GUM not validated: the GUM interval") == flags.count(False), mid
         assert text.count("The Monte Carlo interval is the result to use") == flags.count(False), mid
-        assert text.count("The verdict does not rest on the GUM") == claimed, mid
+        assert text.count("The verdict's conformity probability rests on the uncertainty of the exact pH") == claimed, mid
         for f in flags:
             seen[f] += 1
     assert seen[False], seen  # at the test's 20,000 draws no comparison is validated
@@ -170,11 +170,11 @@ def test_the_gum_statement_follows_the_comparison() -> None:
         assert ("was confirmed by" in text) is validated and ("was not confirmed by" in text) is not validated
         assert ("The Monte Carlo interval is the result to use" in text) is not validated
         assert "JCGM 101 §8" in text and "The verdict" not in text
-        assert "The verdict does not rest on the GUM" in str(macros.gum_check(cmp, "the shortcut's error", True))
+        assert "conformity probability rests on the uncertainty of the exact pH" in str(macros.gum_check(cmp, "the shortcut's error", True))
 
 
 def test_the_pdf_names_the_forms_and_explains_the_gum_check(built: Path) -> None:
     flat = " ".join(pdf_text(built, "phosphate-buffer-hh").split())
     assert "potassium dihydrogen phosphate, KH₂PO₄" in flat
     assert "disodium hydrogen phosphate (anhydrous), Na₂HPO₄" in flat
-    assert "Monte Carlo comparison" in flat and "The verdict does not rest on the GUM" in flat
+    assert "Monte Carlo comparison" in flat and "conformity probability rests on the uncertainty of the exact pH" in flat

@@ -50,7 +50,13 @@ def test_no_nan_or_infinity_anywhere_in_the_domain(s: Solution) -> None:
     for approx in CATALOGUE.values():
         if approx.applies(s):
             with np.errstate(all="ignore"):
-                assert np.isfinite(approx.ph(s)), approx.id
+                try:
+                    value = approx.ph(s)
+                except ConvergenceError as exc:  # a shortcut that solves the equilibrium at other
+                    # constants (constants-at-25c) may fail where the exact one did not: the same rule
+                    assert "did not converge" in str(exc), approx.id
+                    continue
+                assert np.isfinite(value), approx.id
 
 
 def test_a_grid_of_extreme_points_is_finite() -> None:

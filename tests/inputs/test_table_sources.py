@@ -97,6 +97,7 @@ def table_texts() -> list[tuple[str, str]]:
             for q, v in (("pka", st.pka), ("enthalpy", st.enthalpy), ("heat_capacity", st.heat_capacity)):
                 if v is not None:
                     out.append((f"substance {sid} step {i}: {q}_source", v.source))
+        out += [(f"substance {sid} form {f.compound}: solubility_source", f.solubility.source) for f in s.forms if f.solubility]
     return out
 
 
@@ -116,12 +117,13 @@ def test_no_table_text_names_software_a_url_or_a_file(where: str, text: str) -> 
 
 def test_every_source_used_is_literature() -> None:
     used = {v.source for s in TABLE.substances.values() for st in s.steps for v in (st.pka, st.enthalpy, st.heat_capacity) if v}
+    used |= {f.solubility.source for s in TABLE.substances.values() for f in s.forms if f.solubility}
     assert used <= set(TABLE.sources), used - set(TABLE.sources)
     assert set(TABLE.sources) <= used, f"unused sources: {set(TABLE.sources) - used}"
     for key in used:
         assert TABLE.sources[key].kind in TABLE_SOURCE_KINDS, (key, TABLE.sources[key].kind)
         # keys are named after the literature: authors and year, or the compilation
-        assert re.fullmatch(r"[a-z]+(?:-[a-z]+)*-(?:19|20)\d\d|nist46|crc-handbook", key), key
+        assert re.fullmatch(r"[a-z]+(?:-[a-z]+)*-(?:19|20)\d\d|nist46|crc-handbook(?:-[a-z]+)*", key), key
 
 
 def test_every_status_has_a_meaning_and_every_note_says_how_its_values_were_checked() -> None:

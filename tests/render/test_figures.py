@@ -16,6 +16,8 @@ not the numbers, is under test here.
 
 from __future__ import annotations
 
+import re
+
 import math
 import xml.etree.ElementTree as ET
 from collections.abc import Iterator
@@ -34,10 +36,13 @@ from matplotlib.transforms import Bbox
 
 from dossier.analysis.method import AnalysisSettings, analyse_method
 from dossier.inputs.loader import load_method
+from dossier.inputs.substances import load_table
 from dossier.render.figures import FIGURE_KINDS, draw_figure, figure_bytes
 
 DEMO = sorted((Path(__file__).resolve().parents[2] / "methods").glob("*.yaml"))
 SVG_NS = "{http://www.w3.org/2000/svg}"
+SUBSTANCE_IDS = [sid for sid in load_table().substances if "-" in sid]
+"""Table ids that differ from a name a reader would use (``phosphoric-acid``)."""
 SLACK_PX = 0.5
 """Rounding allowance when comparing extents [px at the figure's dpi]."""
 MIN_GAP_PX = 4.0
@@ -119,6 +124,17 @@ def test_svg_text_stays_text_without_markup(drawn: list[Drawn]) -> None:
         assert len(texts) >= 6, f"{d.name}: the SVG carries its text as outlines, not <text>"
         bad = [t for t in texts if "$" in t or "\\" in t]
         assert not bad, f"{d.name}: {bad[:4]}"
+
+
+def test_figure_text_names_substances_and_writes_minus_signs(drawn: list[Drawn]) -> None:
+    """The words of the pages hold in the figures too: a substance's name, not its table id
+    ("phosphoric-acid"), and U+2212 before a negative number, never a hyphen-minus."""
+    for d in drawn:
+        texts = [t.get_text() for t in _texts(d.fig)]
+        hyphen = [t for t in texts if re.search(r"(?<![\w])-\d", t)]
+        assert not hyphen, f"{d.name}: {hyphen[:4]}"
+        ids = [t for t in texts for sid in SUBSTANCE_IDS if re.search(rf"(?<![\w-]){re.escape(sid)}(?![\w-])", t)]
+        assert not ids, f"{d.name}: {ids[:4]}"
 
 
 def test_log_axis_ticks_read_as_powers_of_ten() -> None:
