@@ -18,6 +18,7 @@ from numpy.typing import NDArray
 from ..inputs.convert import Variation, solution_for
 from .. import limits
 from ..inputs.model import ConditionsSpec, Distribution, SolutionSpec
+from ..inputs.quality import Concern, data_flags, unknown_enthalpy_pka_half_width
 
 __all__ = ["Variation", "solution_for", "InputKind", "Input", "inputs_of", "variation_from", "same_substance", "TOTAL_MAX"]
 
@@ -38,6 +39,8 @@ class InputKind(StrEnum):
     """The working temperature."""
     BACKGROUND = "background"
     """The background ionic strength."""
+    PKA_AT_TEMPERATURE = "pka_at_t"
+    """The shift of a pKa at the working temperature that a missing ΔH° leaves open."""
 
 
 @dataclass(frozen=True)
@@ -86,8 +89,8 @@ class Input:
     def key(self) -> str:
         """The stable identifier results.json and the tables use: ``pka[0][1]``
         (component 0, step 2), ``log_c[1]``, ``temperature``, ``background``."""
-        if self.kind == InputKind.PKA:
-            return f"pka[{self.component}][{self.step}]"
+        if self.kind in (InputKind.PKA, InputKind.PKA_AT_TEMPERATURE):
+            return f"{self.kind}[{self.component}][{self.step}]"
         if self.kind == InputKind.CONCENTRATION:
             return f"log_c[{self.component}]"
         return str(self.kind)
@@ -124,7 +127,7 @@ def variation_from(inputs: tuple[Input, ...], deltas: dict[str, Arr], conditions
         d = deltas.get(inp.key)
         if d is None:
             continue
-        if inp.kind == InputKind.PKA:
+        if inp.kind in (InputKind.PKA, InputKind.PKA_AT_TEMPERATURE):
             for t in inp.targets:
                 pka_shift[t] = pka_shift.get(t, 0.0) + d
         elif inp.kind == InputKind.CONCENTRATION:
@@ -153,7 +156,11 @@ def inputs_of(spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[Input, ..
     value; one input per substance and step. Concentrations: the tolerance ±a
     is a rectangular distribution, so u(c) = a/√3, taken on log10 c with
     u = u(c)/(c ln 10). Temperature and background ionic strength: their
-    tolerances ±a, rectangular (JCGM 100:2008 §4.3.7).
+    tolerances ±a, rectangular (JCGM 100:2008 §4.3.7). Last, for each pKa
+    without ΔH° when the working temperature ± tolerance leaves 25 °C: the
+    pKa shift at the working temperature, rectangular over ±a/(R ln 10)·|1/T −
+    1/T₀| with a = 50 kJ/mol (:func:`dossier.inputs.quality.unknown_enthalpy_pka_half_width`),
+    so that an unknown temperature dependence enters the budget instead of zero.
     """
     out: list[Input] = []
     root3 = float(np.sqrt(3.0))
@@ -177,4 +184,10 @@ def inputs_of(spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[Input, ..
         tol = conditions.background_tolerance
         out.append(Input(InputKind.BACKGROUND, None, None, "background ionic strength", "mol/kg", conditions.background,
                          tol / root3, Distribution.RECTANGULAR, tol))
+    for flag in data_flags(spec, conditions, {}):
+        if flag.concern == Concern.NO_ENTHALPY:
+            a = unknown_enthalpy_pka_half_width(conditions)
+            name = spec.components[flag.component].name
+            out.append(Input(InputKind.PKA_AT_TEMPERATURE, flag.component, flag.step, f"pKa{flag.step + 1} of {name} at the working temperature (ΔH° unknown)",
+                             "pKa", 0.0, a / root3, Distribution.RECTANGULAR, a, same_substance(spec, flag.component, flag.step)))
     return tuple(out)

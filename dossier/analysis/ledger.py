@@ -78,6 +78,16 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
     for i, iv in enumerate(v.pka_intervals):
         out.append(Entry(f"{base}/validity_pka/{i}/low", iv.low, "pKa", f"lower end of pKa interval {i + 1}", "validity-brent", sid))
         out.append(Entry(f"{base}/validity_pka/{i}/high", iv.high, "pKa", f"upper end of pKa interval {i + 1}", "validity-brent", sid))
+    cu = s.constants_used
+    if s.claimed and cu is not None:
+        name = sa.spec.components[0].name
+        for j, value in enumerate(cu.pka):
+            if value is not None:
+                source = "the procedure's own value" if cu.stated_pka[j] else "the model's value at the working conditions"
+                out.append(Entry(f"{base}/constants/pka/{j + 1}", value, "pKa", f"pKa{j + 1} of {name} put into {k} ({source})", k, sid))
+        if cu.pkw is not None:
+            source = "the procedure's own value" if cu.stated_pkw else "the model's value at the working temperature"
+            out.append(Entry(f"{base}/constants/pkw", cu.pkw, "pKw", f"pKw put into {k} ({source})", k, sid))
     if s.claimed:
         mc = sa.monte_carlo
         d = mc.errors[k]

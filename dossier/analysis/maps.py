@@ -8,7 +8,6 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from ..chemistry import CATALOGUE
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import TOTAL_MAX, Variation, solution_for
 from .validity import concentration_scales, pka_shifts
@@ -46,7 +45,7 @@ def error_map(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, *,
     c0 = spec.components[0].concentration
     scales = concentration_scales(spec, n_conc)
     sol = solution_for(spec, conditions, Variation(scale=scales[None, :], pka_shift_all={i: shifts[:, None] for i in same}))
-    err = np.asarray(CATALOGUE[approx_id].error(sol), dtype=np.float64)
+    err = np.asarray(spec.approximation(approx_id).error(sol), dtype=np.float64)
     return ErrorMap(approx_id, key + shifts, np.log10(scales * c0), err, (key, float(np.log10(c0))))
 
 
@@ -57,5 +56,5 @@ def pka_curves(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, *
     biggest = max(c.concentration for c in spec.components)
     factors = np.array([f for f in (0.01, 0.1, 1.0, 10.0, 100.0) if 1e-10 <= f * c0 and f * biggest <= TOTAL_MAX])
     sol = solution_for(spec, conditions, Variation(scale=factors[:, None], pka_shift_all={i: shifts[None, :] for i in same}))
-    err = np.asarray(CATALOGUE[approx_id].error(sol), dtype=np.float64)
+    err = np.asarray(spec.approximation(approx_id).error(sol), dtype=np.float64)
     return PkaCurves(approx_id, key + shifts, factors * c0, err)

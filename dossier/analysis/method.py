@@ -17,8 +17,10 @@ from ..chemistry import CATALOGUE, applicable, debye_huckel_a, equilibrium
 from ..inputs.model import Method, SolutionSpec
 from .adjustment import AdjustmentResult, adjustment_result
 from .co2 import Co2Result, co2_result
+from .aswritten import ConstantsUsed, constants_used
 from .maps import ErrorMap, PkaCurves, error_map, pka_curves
 from .decision import ModelUncertainty, model_uncertainty
+from .quality import DataQualityItem, data_quality
 from .montecarlo import DEFAULT_DRAWS, Comparison, McResult, compare, monte_carlo
 from .region import operating_region
 from .sensitivity import GumResult, gum
@@ -81,6 +83,8 @@ class ShortcutAnalysis:
     verdict: Verdict | None
     map: ErrorMap | None
     curves: PkaCurves | None
+    constants_used: ConstantsUsed | None = None
+    """The constants put into the shortcut's equation at nominal conditions, beside the model's."""
 
 
 @dataclass(frozen=True)
@@ -97,6 +101,8 @@ class SolutionAnalysis:
     model: ModelUncertainty
     co2: Co2Result | None = None
     adjustment: AdjustmentResult | None = None
+    data_quality: tuple[DataQualityItem, ...] = ()
+    """Values a reviewer cannot take on trust, each with what a plausible error would do."""
 
 
 @dataclass(frozen=True)
@@ -130,7 +136,8 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
                 id=sid,
                 title=CATALOGUE[sid].title,
                 claimed=True,
-                ph=float(CATALOGUE[sid].ph(nominal)),
+                ph=float(spec.approximation(sid).ph(nominal)),
+                constants_used=constants_used(spec.approximation(sid), nominal),
                 error=v.nominal_error,
                 validity=v,
                 gum=gum_errors[sid],
@@ -145,9 +152,12 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
         if approx.id in claimed:
             continue
         v = validity(approx.id, spec, c, limit)
-        appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None))
+        appendix.append(ShortcutAnalysis(approx.id, approx.title, False, float(approx.ph(nominal)), v.nominal_error, v, None, None, None, None, None,
+                                         constants_used(approx, nominal)))
+    quality = data_quality(method, spec, gum_exact, gum_errors, {s.id: s.error for s in shortcuts})
     co2 = co2_result(nominal, eq, c.co2_as_written, limit)
-    return SolutionAnalysis(spec, exact, gum_exact, mc, exact_cmp, tuple(shortcuts), tuple(appendix), model, co2=co2, adjustment=adjustment_result(spec, c))
+    return SolutionAnalysis(spec, exact, gum_exact, mc, exact_cmp, tuple(shortcuts), tuple(appendix), model,
+                            co2=co2, adjustment=adjustment_result(spec, c), data_quality=quality)
 
 
 def analyse_method(method: Method, settings: AnalysisSettings | None = None, *, progress: Callable[[str], None] | None = None) -> MethodAnalysis:

@@ -33,7 +33,7 @@ from dataclasses import dataclass, field
 import numpy as np
 from numpy.typing import NDArray
 
-from ..chemistry import CATALOGUE, equilibrium
+from ..chemistry import equilibrium
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import inputs_of, solution_for, variation_from
 from .decision import conformity_counted
@@ -167,12 +167,12 @@ def monte_carlo(
     errors: dict[str, Summary] = {}
     p_exceed: dict[str, float] = {}
     for sid in approx_ids:
-        err = np.broadcast_to(np.asarray(CATALOGUE[sid].ph(sol), dtype=np.float64), (draws,)) - exact
+        err = np.broadcast_to(np.asarray(spec.approximation(sid).ph(sol), dtype=np.float64), (draws,)) - exact
         errors[sid] = _summary(err)
         p_exceed[sid] = float(np.count_nonzero(np.abs(err) > limit)) / draws
     model = rng.normal(0.0, model_u, draws) if model_u > 0.0 else 0.0
     nominal = solution_for(spec, conditions)
-    p_conform = {sid: conformity_counted(float(CATALOGUE[sid].ph(nominal)) - exact - model, limit) for sid in approx_ids}
+    p_conform = {sid: conformity_counted(float(spec.approximation(sid).ph(nominal)) - exact - model, limit) for sid in approx_ids}
     return McResult(draws, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit, p_conform, model_u)
 
 

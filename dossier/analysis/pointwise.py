@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..chemistry import CATALOGUE, Solution, equilibrium
+from ..chemistry import CATALOGUE, Solution, StatedConstants, equilibrium
 from ..inputs.model import Method
 
 __all__ = ["ShortcutPoint", "PointResult", "evaluate_point", "evaluate_method"]
@@ -66,7 +66,8 @@ class PointResult:
     not_applicable: tuple[tuple[str, str], ...]
 
 
-def evaluate_point(solution: Solution, shortcut_ids: tuple[str, ...] | None = None) -> PointResult:
+def evaluate_point(solution: Solution, shortcut_ids: tuple[str, ...] | None = None, *,
+                   as_written: dict[str, StatedConstants | None] | None = None) -> PointResult:
     """Solve one (scalar) solution and evaluate its shortcuts.
 
     Parameters
@@ -75,6 +76,9 @@ def evaluate_point(solution: Solution, shortcut_ids: tuple[str, ...] | None = No
         A scalar solution (no array inputs).
     shortcut_ids : tuple of str, optional
         Shortcuts to evaluate; None: every one that applies.
+    as_written : dict, optional
+        ``{shortcut id: StatedConstants}``: the procedure's own constants of a
+        shortcut (the exact pH keeps the model's).
 
     Returns
     -------
@@ -94,7 +98,7 @@ def evaluate_point(solution: Solution, shortcut_ids: tuple[str, ...] | None = No
     points = []
     skipped = []
     for sid in ids:
-        approx = CATALOGUE[sid]
+        approx = CATALOGUE[sid].as_written((as_written or {}).get(sid))
         why = approx.why_not(solution)
         if why is not None:
             if shortcut_ids is not None:
@@ -122,5 +126,6 @@ def evaluate_method(method: Method) -> tuple[tuple[str, PointResult], ...]:
     tuple of (solution id, PointResult)
     """
     return tuple(
-        (s.id, evaluate_point(s.to_solution(method.conditions), s.shortcuts)) for s in method.solutions
+        (s.id, evaluate_point(s.to_solution(method.conditions), s.shortcuts, as_written={c.id: c.stated for c in s.claims}))
+        for s in method.solutions
     )

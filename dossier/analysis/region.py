@@ -31,7 +31,6 @@ from numpy.typing import NDArray
 from scipy.optimize import brentq, minimize
 
 from .. import limits
-from ..chemistry import CATALOGUE
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import Variation, solution_for
 
@@ -103,7 +102,7 @@ def _errors(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, c: N
     """The shortcut's error at points (c, t, b), one engine call."""
     c0 = spec.components[0].concentration
     sol = solution_for(spec, conditions, Variation(scale=c / c0, temperature=t, background=b))
-    return np.broadcast_to(np.asarray(CATALOGUE[approx_id].error(sol), dtype=np.float64), np.shape(c))
+    return np.broadcast_to(np.asarray(spec.approximation(approx_id).error(sol), dtype=np.float64), np.shape(c))
 
 
 def _span(nominal: float, tolerance: float, floor: float) -> tuple[float, float]:

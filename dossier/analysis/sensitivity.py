@@ -33,14 +33,15 @@ from dataclasses import dataclass, replace
 import numpy as np
 from numpy.typing import NDArray
 
-from ..chemistry import CATALOGUE, equilibrium
+from ..chemistry import equilibrium
 from .. import limits
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import Input, InputKind, inputs_of, same_substance, solution_for, variation_from
 
 __all__ = ["Contribution", "Coefficients", "GumResult", "gum"]
 
-_STEP = {InputKind.PKA: 1e-3, InputKind.CONCENTRATION: 1e-3, InputKind.TEMPERATURE: 0.02, InputKind.BACKGROUND: 1e-4}
+_STEP = {InputKind.PKA: 1e-3, InputKind.CONCENTRATION: 1e-3, InputKind.TEMPERATURE: 0.02, InputKind.BACKGROUND: 1e-4,
+         InputKind.PKA_AT_TEMPERATURE: 1e-3}
 
 
 @dataclass(frozen=True)
@@ -173,7 +174,7 @@ def gum(approx_ids: tuple[str, ...], spec: SolutionSpec, conditions: ConditionsS
         if ks not in exact_cache:
             exact_cache[ks] = np.asarray(equilibrium(sol).ph)
         exact = exact_cache[ks]
-        y[sid] = exact if not sid else np.asarray(CATALOGUE[sid].ph(sol)) - exact
+        y[sid] = exact if not sid else np.asarray(spec.approximation(sid).ph(sol)) - exact
 
     def pair(values: NDArray[np.float64], name: str, kind: str) -> tuple[float, float]:
         lo, hi = index[(name, kind + "-")], index[(name, kind + "+")]

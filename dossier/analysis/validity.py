@@ -399,7 +399,7 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
     >>> [(round(i.low * 1e3, 2), i.robust) for i in v.concentration_intervals][1]  # mmol/L
     (1.22, True)
     """
-    approx = CATALOGUE[approx_id]
+    approx = spec.approximation(approx_id)  # with the procedure's own constants where it states them
     top = activity_model(conditions.activity).max_ionic_strength
     c0 = spec.components[0].concentration
     scales = concentration_scales(spec, CONCENTRATION_POINTS)

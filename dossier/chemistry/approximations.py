@@ -544,6 +544,10 @@ class Approximation:
         Whether pKw enters the equation.
     partials : tuple of (label, pH function)
         Single-assumption relatives (see :meth:`partial_ph`).
+    stated : StatedConstants, optional
+        The procedure's own constants, bound by :meth:`as_written`: every
+        pH, error and constant of this shortcut then uses them unless a call
+        states others. None for the catalogue's entries (the model's values).
     """
 
     id: str
@@ -559,6 +563,35 @@ class Approximation:
     formula: bool = True
     uses_pkw: bool = False
     partials: tuple[tuple[str, Callable[[Solution, Constants], Number]], ...] = ()
+    stated: StatedConstants | None = None
+
+    def as_written(self, stated: StatedConstants | None) -> Approximation:
+        """This shortcut evaluated with the procedure's own constants.
+
+        A stated constant is a fixed number of the procedure: it does not
+        follow a swept or drawn pKa of the solution, while every constant left
+        to the model (None) does.
+
+        Raises
+        ------
+        InputRangeError
+            When constants are stated for an exact-solution variant.
+
+        Examples
+        --------
+        >>> hh = CATALOGUE["henderson-hasselbalch"].as_written(StatedConstants(pka=(None, 6.86, None)))
+        >>> p = Protolyte("phosphoric", (2.148, 7.198, 12.35), charge=0)
+        >>> round(hh.ph(Solution([Component(p, 0.02, 1), Component(p, 0.02, 2)])), 3)
+        6.86
+        """
+        if stated is None or stated.empty:
+            return replace(self, stated=None)
+        if not self.formula:
+            raise InputRangeError(self.id, "the procedure's own constants apply to a formula; this shortcut is an exact solution with one assumption changed")
+        return replace(self, stated=stated)
+
+    def _stated(self, stated: StatedConstants | None) -> StatedConstants | None:
+        return stated if stated is not None else self.stated
 
     def steps(self, solution: Solution) -> tuple[int, ...]:
         """Steps (0-based) of the first component whose pKa the equation uses."""
@@ -580,7 +613,7 @@ class Approximation:
         """
         if not self.formula:
             return (), None
-        k = working_constants(solution, stated)
+        k = working_constants(solution, self._stated(stated))
         used = set(self.steps(solution))
         pka = tuple(v if i in used else None for i, v in enumerate(k.pka[0]))
         return pka, (k.pkw if self.uses_pkw else None)
@@ -593,7 +626,7 @@ class Approximation:
         making only that one; their errors show whether the shortcut holds
         only because two errors cancel. Empty for the other shortcuts.
         """
-        k = working_constants(solution, stated)
+        k = working_constants(solution, self._stated(stated))
         return {label: fn(solution, k) for label, fn in self.partials}
 
     def why_not(self, solution: Solution) -> str | None:
@@ -629,6 +662,7 @@ class Approximation:
         why = self.why_not(solution)
         if why is not None:
             raise NotApplicable(self.id, why)
+        stated = self._stated(stated)
         if stated is not None and not stated.empty:
             if not self.formula:
                 raise InputRangeError(self.id, "the procedure's own constants apply to a formula; this shortcut is an exact solution with one assumption changed")

@@ -23,6 +23,7 @@ from ..chemistry import (
     ConvergenceError,
     InputRangeError,
     Solution,
+    StatedConstants,
     activity_model,
     equilibrium,
     titrant_for_ph,
@@ -34,6 +35,7 @@ from .model import (
     METHOD_FILE,
     AdjustmentSpec,
     TABLE,
+    ClaimedShortcut,
     ComponentSpec,
     ConditionsSpec,
     Criteria,
@@ -46,7 +48,9 @@ from .model import (
 from pydantic import ValidationError
 
 from .forms import FormError, protons_removed
-from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, SolutionIn
+from .quality import Concern, DataFlag, Quantity, data_flags, farthest_temperature
+from .substances import STATUS_MEANINGS
+from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn
 from .substances import Substance, SubstanceTable
 from .units import UnitError, format_concentration, parse_concentration, parse_pressure
 from .yamlpos import LoadedYaml
@@ -71,6 +75,7 @@ class _Ctx:
     doc: LoadedYaml
     table: SubstanceTable
     problems: list[Problem] = field(default_factory=list)
+    reference_kinds: dict[str, str] = field(default_factory=dict)
 
     def add(self, loc: Loc, message: str, severity: Severity = Severity.ERROR) -> None:
         pos = self.doc.where(loc)
@@ -181,13 +186,16 @@ def _pka(
         return None
 
     enthalpy, dh_origin = entry.enthalpy, METHOD_FILE
+    dh_status = dh_source = dcp_status = dcp_source = ""
     if enthalpy is None and table_step is not None and table_step.enthalpy is not None:
         enthalpy, dh_origin = table_step.enthalpy.value, TABLE
+        dh_status, dh_source = table_step.enthalpy.status, table_step.enthalpy.source
     if enthalpy is None:
         dh_origin = "none"
     heat_capacity = entry.heat_capacity
     if heat_capacity is None and entry.enthalpy is None and table_step is not None and table_step.heat_capacity is not None:
         heat_capacity = table_step.heat_capacity.value
+        dcp_status, dcp_source = table_step.heat_capacity.status, table_step.heat_capacity.source
 
     # stated value (T_s, I_s) -> thermodynamic at T_s -> thermodynamic at 25 °C
     t_s, i_s = entry.temperature, entry.ionic_strength
@@ -209,8 +217,6 @@ def _pka(
             pk25 = pk_ts - (float(pka_at_temperature(0.0, t_s, enthalpy, heat_capacity)))
     else:
         pk25 = pk_ts
-    if t_s == REFERENCE_TEMPERATURE and enthalpy is None and conditions.temperature != REFERENCE_TEMPERATURE:
-        ctx.warn(loc, f"no enthalpy of ionization: the 25 °C pKa is used unchanged at {conditions.temperature:g} °C")
     at_t = float(pka_at_temperature(pk25, conditions.temperature, enthalpy, heat_capacity))
     distribution = Distribution(entry.distribution)
     spread = limits.DRAW_TRUNCATION_SIGMAS * entry.uncertainty if distribution == Distribution.NORMAL else 3.0**0.5 * entry.uncertainty
@@ -235,6 +241,10 @@ def _pka(
         reference=reference,
         status=status,
         enthalpy_origin=dh_origin,
+        enthalpy_status=dh_status,
+        heat_capacity_status=dcp_status,
+        enthalpy_source=dh_source,
+        heat_capacity_source=dcp_source,
     )
 
 
@@ -322,12 +332,14 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
     t = conditions.temperature
     acid = _concentration(ctx, loc + ("strong_acid",), sol.strong_acid, None, t, allow_zero=True) if sol.strong_acid else 0.0
     base = _concentration(ctx, loc + ("strong_base",), sol.strong_base, None, t, allow_zero=True) if sol.strong_base else 0.0
+    ids = [sc.id for sc in sol.shortcuts]
     unknown = False
-    for i, sid in enumerate(sol.shortcuts):
-        if sid not in CATALOGUE:
-            ctx.add(loc + ("shortcuts", i), f"unknown shortcut {sid!r}{did_you_mean(sid, list(CATALOGUE))}; known: {', '.join(CATALOGUE)}")
+    for i, sc in enumerate(sol.shortcuts):
+        if sc.id not in CATALOGUE:
+            where = loc + (("shortcuts", i, "id") if sc.as_written is not None else ("shortcuts", i))
+            ctx.add(where, f"unknown shortcut {sc.id!r}{did_you_mean(sc.id, list(CATALOGUE))}; known: {', '.join(CATALOGUE)}")
             unknown = True
-    if len(set(sol.shortcuts)) != len(sol.shortcuts):
+    if len(set(ids)) != len(ids):
         ctx.warn(loc + ("shortcuts",), "a shortcut is listed twice")
     if any(c is None for c in comps) or acid is None or base is None or unknown:
         return None
@@ -341,7 +353,10 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
                 "not in proportion to the first component's: the analyses dilute or concentrate the whole solution "
                 "together over the first component's working range",
             )
-    spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(sol.shortcuts)))  # type: ignore[arg-type]
+    claims = _claims(ctx, loc, sol.shortcuts, comps[0])  # type: ignore[arg-type]
+    if claims is None:
+        return None
+    spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(ids)), as_written=claims)  # type: ignore[arg-type]
     try:
         engine_solution = spec.to_solution(conditions)
     except InputRangeError as exc:
@@ -352,14 +367,85 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
         if spec is None:
             return None
         engine_solution = spec.to_solution(conditions)
+    for flag in data_flags(spec, conditions, ctx.reference_kinds):
+        _warn_flag(ctx, loc, spec, conditions, flag)
     ok = True
-    for i, sid in enumerate(sol.shortcuts):
+    for i, sid in enumerate(ids):
         why = CATALOGUE[sid].why_not(engine_solution)
         if why is not None:
             ctx.add(loc + ("shortcuts", i), f"{sid} does not apply to this solution: {why}")
             ok = False
     ok = _within_model_range(ctx, loc, spec, conditions) and ok
     return spec if ok else None
+
+
+_QUANTITY_WORDS = {Quantity.PKA: "pKa{n}", Quantity.ENTHALPY: "ΔH° of step {n}", Quantity.HEAT_CAPACITY: "ΔCp° of step {n}"}
+_UNITS = {Quantity.PKA: "", Quantity.ENTHALPY: " kJ/mol", Quantity.HEAT_CAPACITY: " J/(K·mol)"}
+
+
+def _warn_flag(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: ConditionsSpec, flag: DataFlag) -> None:
+    """A data-quality warning at the pKa entry, naming the value (an error under --strict)."""
+    comp = spec.components[flag.component]
+    what = _QUANTITY_WORDS[flag.quantity].format(n=flag.step + 1) + f" of {comp.name}"
+    here: Loc = loc + ("components", flag.component, "pka", flag.step)
+    if flag.concern == Concern.NO_ENTHALPY:
+        t = farthest_temperature(conditions)
+        ctx.warn(here, f"pKa{flag.step + 1} of {comp.name} has no enthalpy of ionization ΔH°, and the working temperature reaches {t:g} °C: the 25 °C pKa is used unchanged, "
+                       "and the uncertainty budget takes ΔH° as unknown within ±50 kJ/mol; state the enthalpy with its reference")
+        return
+    value = f"{_num(flag.value or 0.0)}{_UNITS[flag.quantity]}"
+    source = f"{flag.origin}, source {flag.reference!r}" if flag.origin == TABLE else f"reference {flag.reference!r}"
+    if flag.concern in (Concern.RECALLED, Concern.UNVERIFIED):
+        ctx.warn(here, f"{what} = {value} ({source}) is {flag.concern}: {STATUS_MEANINGS[flag.concern]}; "
+                       "check it against the source or state a value with its reference")
+    elif flag.concern == Concern.ESTIMATE:
+        ctx.warn(here + ("reference",), f"{what} = {value} ({source}) is an estimate, not a measurement or a compilation")
+    else:
+        ctx.warn(here + ("uncertainty",), f"{what} = {value} has no uncertainty (0): its error does not enter the budget; state a standard uncertainty")
+
+
+def _claims(ctx: _Ctx, loc: Loc, shortcuts: list[ShortcutIn], first: ComponentSpec) -> tuple[ClaimedShortcut, ...] | None:
+    """The claims that state the procedure's own constants (``as_written:``), checked:
+    one pKa per step of the first component, each within the limits of a
+    stated pKa, pKw within the limits of an override, only for a formula.
+    None when one is wrong (each problem added)."""
+    out: list[ClaimedShortcut] = []
+    ok = True
+    seen: set[str] = set()
+    for i, sc in enumerate(shortcuts):
+        aw = sc.as_written
+        if aw is None or sc.id in seen:
+            continue
+        seen.add(sc.id)
+        here = loc + ("shortcuts", i, "as_written")
+        if not CATALOGUE[sc.id].formula:
+            ctx.add(here, f"{sc.id} is the exact solution with one assumption changed, not a formula: it has no constants of its own to state")
+            ok = False
+            continue
+        steps = len(first.pka)
+        pka: tuple[float | None, ...] = ()
+        if aw.pka is not None:
+            if len(aw.pka) != steps:
+                ctx.add(here + ("pka",), f"{len(aw.pka)} value(s) for {first.name}, which has {steps} ionization step(s): give one per step, null for the model's value")
+                ok = False
+                continue
+            (lo, hi) = limits.PKA_STATED
+            for j, v in enumerate(aw.pka):
+                if v is not None and not lo <= v <= hi:
+                    ctx.add(here + ("pka", j), f"must be a pKa from {_num(lo)} to {_num(hi)}; got {v:g}")
+                    ok = False
+            pka = tuple(aw.pka)
+        if aw.pkw is not None:
+            (lo, hi) = limits.PKW_OVERRIDE
+            if not lo <= aw.pkw <= hi:
+                ctx.add(here + ("pkw",), f"must be a pKw from {_num(lo)} to {_num(hi)}; got {aw.pkw:g}")
+                ok = False
+        stated = StatedConstants(pka, aw.pkw)
+        if stated.empty:
+            ctx.warn(here, "states no constant of the procedure's own: the shortcut uses the model's values")
+            continue
+        out.append(ClaimedShortcut(sc.id, stated))
+    return tuple(out) if ok else None
 
 
 def _background_beyond_range(conditions: ConditionsSpec) -> bool:
@@ -547,7 +633,7 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
     (Method or None, list of Problem)
         None when any error was found.
     """
-    ctx = _Ctx(path, doc, table)
+    ctx = _Ctx(path, doc, table, reference_kinds={k: r.kind for k, r in mf.references.items()})
     c = mf.conditions
     conditions = _conditions(ctx, c)
     refs = set(mf.references)

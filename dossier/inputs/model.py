@@ -12,7 +12,7 @@ from enum import StrEnum
 
 import numpy as np
 
-from ..chemistry import CarbonDioxide, Protolyte, Solution
+from ..chemistry import CATALOGUE, Approximation, CarbonDioxide, Protolyte, Solution, StatedConstants
 from .formulas import subscripted
 
 __all__ = [
@@ -20,6 +20,7 @@ __all__ = [
     "ComponentSpec",
     "SolutionSpec",
     "AdjustmentSpec",
+    "ClaimedShortcut",
     "ConditionsSpec",
     "Criteria",
     "Distribution",
@@ -72,6 +73,11 @@ class PkaValue:
         ``stated`` for a method-file value; the table status otherwise.
     enthalpy_origin : str
         Where ΔH° came from (``method file``, ``substance table`` or ``none``).
+    enthalpy_status, heat_capacity_status : str
+        The table status of ΔH° and ΔCp° when they came from the table
+        (``confirmed`` … ``recalled``); empty otherwise.
+    enthalpy_source, heat_capacity_source : str
+        The table's source key of ΔH° and ΔCp°; empty otherwise.
     """
 
     stated: float
@@ -87,6 +93,10 @@ class PkaValue:
     reference: str
     status: str
     enthalpy_origin: str
+    enthalpy_status: str = ""
+    heat_capacity_status: str = ""
+    enthalpy_source: str = ""
+    heat_capacity_source: str = ""
 
 
 @dataclass(frozen=True)
@@ -214,6 +224,24 @@ class AdjustmentSpec:
     stock: float | None = None
     stock_text: str | None = None
 
+@dataclass(frozen=True)
+class ClaimedShortcut:
+    """A shortcut the procedure relies on, and the constants its own calculation uses.
+
+    Attributes
+    ----------
+    id : str
+        Catalogue id.
+    stated : StatedConstants or None
+        The procedure's own values (``as_written:`` in the method file): one
+        pKa per step of the first component (None: the model's value at the
+        working conditions) and pKw (None: the model's). None when the
+        procedure states none: the shortcut then uses the model's values.
+    """
+
+    id: str
+    stated: StatedConstants | None = None
+
 
 @dataclass(frozen=True)
 class SolutionSpec:
@@ -221,6 +249,9 @@ class SolutionSpec:
 
     With ``adjustment``, the strong acid or base already includes the titrant
     the exact model adds to reach the target pH.
+    ``shortcuts`` are the claimed ids in the file's order; ``as_written``
+    holds the claims that state the procedure's own constants (see
+    :meth:`approximation`).
     """
 
     id: str
@@ -230,6 +261,24 @@ class SolutionSpec:
     strong_base: float
     shortcuts: tuple[str, ...]
     adjustment: AdjustmentSpec | None = None
+    as_written: tuple[ClaimedShortcut, ...] = ()
+
+    @property
+    def claims(self) -> tuple[ClaimedShortcut, ...]:
+        """Every claimed shortcut with the constants it states (None where it states none)."""
+        stated = {c.id: c.stated for c in self.as_written}
+        return tuple(ClaimedShortcut(sid, stated.get(sid)) for sid in self.shortcuts)
+
+    def stated(self, shortcut_id: str) -> StatedConstants | None:
+        """The constants the procedure states for a claimed shortcut (None: the model's)."""
+        return next((c.stated for c in self.as_written if c.id == shortcut_id), None)
+
+    def approximation(self, shortcut_id: str) -> Approximation:
+        """The catalogue's shortcut as this solution's procedure evaluates it:
+        bound to the procedure's stated constants where the claim states them
+        (:meth:`dossier.chemistry.Approximation.as_written`), else the
+        catalogue's entry (model constants), also for a shortcut not claimed."""
+        return CATALOGUE[shortcut_id].as_written(self.stated(shortcut_id))
 
     def same_substance(self, component: int) -> tuple[int, ...]:
         """Indices of every component that is the same substance as ``component``

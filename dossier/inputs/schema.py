@@ -30,6 +30,8 @@ __all__ = [
     "AdjustedTo",
     "ComponentIn",
     "PkaIn",
+    "ShortcutIn",
+    "AsWrittenIn",
     "ReferenceIn",
     "json_schema",
 ]
@@ -237,6 +239,38 @@ class AdjustedTo(_Model):
     stock: ConcentrationText | None = Field(None, description="Concentration of the titrant stock, with unit, for the volume per litre (optional).")
 
 
+class AsWrittenIn(_Model):
+    """The constants the procedure's own calculation puts into the shortcut."""
+
+    pka: list[float | None] | None = Field(
+        None, min_length=1, max_length=6,
+        description="The procedure's pKa for each step of the first component, in order (one entry per step); "
+        "null: the model's value at the working conditions (thermodynamic, at the working temperature). "
+        "Used in the shortcut's equation as written, without conversion.",
+    )
+    pkw: float | None = Field(
+        None, allow_inf_nan=False,
+        description="The procedure's pKw (e.g. 14.0); leave out for the model's value at the working temperature.",
+    )
+
+
+class ShortcutIn(_Model):
+    """A claimed shortcut with the constants the procedure's own calculation uses."""
+
+    id: str = Field(description="Shortcut id (see docs/calculations.md).")
+    as_written: AsWrittenIn | None = Field(
+        None, description="The constants the procedure puts into the shortcut's equation (pka, pkw); leave out for the model's values.",
+    )
+
+
+def _shortcut_item(v: Any) -> Any:
+    return {"id": v} if isinstance(v, str) else v
+
+
+ShortcutItem = Annotated[ShortcutIn, BeforeValidator(_shortcut_item, json_schema_input_type=str | ShortcutIn)]
+"""A shortcut claim: a plain id, or ``{id, as_written}``."""
+
+
 class SolutionIn(_Model):
     """One solution whose pH the SOP calculates."""
 
@@ -245,7 +279,11 @@ class SolutionIn(_Model):
     components: list[ComponentIn] = Field(min_length=1, max_length=10, description="The substances dissolved.")
     strong_acid: ConcentrationText | None = Field(None, description="Added strong acid (e.g. HCl), with unit.")
     strong_base: ConcentrationText | None = Field(None, description="Added strong base (e.g. NaOH), with unit.")
-    shortcuts: list[str] = Field(min_length=1, max_length=12, description="Ids of the shortcuts the SOP relies on (see docs/calculations.md).")
+    shortcuts: list[ShortcutItem] = Field(
+        min_length=1, max_length=12,
+        description="The shortcuts the SOP relies on (see docs/calculations.md): each a plain id, or "
+        "{id, as_written: {pka, pkw}} with the constants the procedure's own calculation uses.",
+    )
     adjusted_to: AdjustedTo | None = Field(
         None,
         description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",

@@ -10,7 +10,8 @@ from __future__ import annotations
 from dataclasses import asdict
 from typing import Any
 
-from .model import AdjustmentSpec, ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
+from ..chemistry import StatedConstants
+from .model import AdjustmentSpec, ClaimedShortcut, ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
 
 __all__ = ["method_to_dict", "method_from_dict"]
 
@@ -40,7 +41,13 @@ def _solution(d: dict[str, Any]) -> SolutionSpec:
     d["shortcuts"] = tuple(d["shortcuts"])
     if d.get("adjustment") is not None:
         d["adjustment"] = AdjustmentSpec(**d["adjustment"])
+    d["as_written"] = tuple(_claim(c) for c in d.get("as_written", ()))
     return SolutionSpec(**d)
+
+
+def _claim(d: dict[str, Any]) -> ClaimedShortcut:
+    st = d["stated"]
+    return ClaimedShortcut(d["id"], None if st is None else StatedConstants(tuple(st["pka"]), st["pkw"]))
 
 
 def method_from_dict(d: dict[str, Any]) -> Method:

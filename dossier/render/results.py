@@ -138,6 +138,10 @@ def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis, method: Method) -> dict
         "max_abs_error_at_total_mol_per_l": v.max_abs_error_at,
         "holds_within_working_range_mol_per_l": [list(p) for p in v.holds_within_working_range],
     }
+    cu = s.constants_used
+    if cu is not None:
+        out["constants_used"] = {"pka": list(cu.pka), "pkw": cu.pkw}
+        out["constants_stated"] = {"pka": list(cu.stated_pka), "pkw": cu.stated_pkw}
     if s.claimed:
         mc = sa.monte_carlo
         vd: Verdict = s.verdict  # type: ignore[assignment]
@@ -232,6 +236,27 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
         },
         "approximations": [_shortcut(sa, s, analysis.method) for s in sa.shortcuts],
         "appendix": [_shortcut(sa, s, analysis.method) for s in sa.appendix],
+        "data_quality": [
+            {
+                "component": q.flag.component,
+                "step": q.flag.step + 1,
+                "quantity": str(q.flag.quantity),
+                "concern": str(q.flag.concern),
+                "value": q.flag.value,
+                "origin": q.flag.origin,
+                "reference": q.flag.reference,
+                "plausible_error": q.plausible_error,
+                "common_practice": q.common_practice,
+                "pka_shift": q.pka_shift,
+                "at_temperature_c": q.temperature,
+                "d_ph_d_pka": q.coefficient,
+                "shift_exact_ph": q.shift_exact,
+                "shift_error": q.shift_error,
+                "worst_abs_error": q.worst_abs_error,
+                "in_budget": q.in_budget,
+            }
+            for q in sa.data_quality
+        ],
         **_co2(sa),
     }
 

@@ -85,7 +85,8 @@ def test_progress_lines_quiet_and_timings(tmp_path: Path) -> None:
     assert len({len(line) for line in timings}) == 1, timings  # one width: the seconds end in one column
     assert len({line.index(".", len(line) - 8) for line in timings}) == 1, timings  # decimal points aligned
     q = run("build", str(methods), "-o", str(tmp_path / "o"), "--draws", "1000", "--no-pdf", "--quiet")
-    assert q.returncode == 0 and q.stderr == ""
+    # --quiet prints only problems: here the table's unverified benzoic-acid values (data-quality warnings)
+    assert q.returncode == 0 and all(": warning: " in line for line in q.stderr.splitlines())
     assert q.stdout.startswith("built ")
 
 

@@ -50,7 +50,8 @@ def test_check_exit_codes() -> None:
     assert "Traceback" not in bad.stdout + bad.stderr
     warn = run("check", "tests/inputs/bad/unknown-key.yaml")
     assert warn.returncode == 0
-    assert warn.stdout.splitlines()[-1] == "1 method file checked: no errors, 1 warning(s)"
+    # the unknown key, and the table's acetic acid pKa (unverified: a data-quality warning)
+    assert warn.stdout.splitlines()[-1] == "1 method file checked: no errors, 2 warning(s)"
     strict = run("check", "--strict", "tests/inputs/bad/unknown-key.yaml")
     assert strict.returncode == 1
     assert strict.stdout.splitlines()[0] == (
@@ -73,9 +74,9 @@ def test_duplicate_method_ids_across_a_dossier(tmp_path: Path) -> None:
         shutil.copy(ROOT / "methods" / "benzoate-extract.yaml", tmp_path / name)
     r = run("check", ".", cwd=tmp_path)
     assert r.returncode == 1
-    assert r.stdout.splitlines()[0] == (
+    assert (
         "two.yaml:6:7: method.id: method id 'benzoate-extract' is also used by one.yaml; ids must be unique in a dossier"
-    )
+    ) in r.stdout.splitlines()
 
 
 def test_method_ids_that_differ_only_in_case(tmp_path: Path) -> None:
@@ -85,12 +86,12 @@ def test_method_ids_that_differ_only_in_case(tmp_path: Path) -> None:
     (tmp_path / "b.yaml").write_text(text.replace("id: benzoate-extract", "id: qc-m-0042", 1), encoding="utf-8")
     r = run("check", ".", cwd=tmp_path)
     assert r.returncode == 1
-    assert r.stdout.splitlines()[0] == (
+    assert (
         "b.yaml:6:7: method.id: method id 'qc-m-0042' differs only in case from 'QC-M-0042' in a.yaml; "
         "a case-insensitive file system would give both reports one folder: ids must differ by more than case"
-    )
+    ) in r.stdout.splitlines()
     (tmp_path / "b.yaml").unlink()
-    assert run("check", "--strict", ".", cwd=tmp_path).returncode == 0  # upper case alone is fine
+    assert run("check", ".", cwd=tmp_path).returncode == 0  # upper case alone is fine
 
 
 def test_missing_path_is_an_error(tmp_path: Path) -> None:

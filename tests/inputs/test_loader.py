@@ -21,10 +21,17 @@ ROOT = Path(__file__).resolve().parents[2]
 DEMO = sorted((ROOT / "methods").glob("*.yaml"))
 
 
-def test_demo_dossier_loads_without_any_problem() -> None:
-    inputs = load_paths([ROOT / "methods"], strict=True)
-    assert inputs.problems == ()
-    assert len(inputs.methods) >= 8
+DATA_QUALITY = ("is unverified: ", "is recalled: ", "no enthalpy of ionization", "is an estimate", "has no uncertainty (0)")
+
+
+def test_demo_dossier_loads_with_data_quality_warnings_only() -> None:
+    # The demo uses table values not read in their sources (docs/method-format.md, "Data you cannot trust"):
+    # check warns about each, naming it; --strict makes them errors.
+    inputs = load_paths([ROOT / "methods"])
+    assert len(inputs.methods) >= 8 and inputs.ok
+    assert inputs.problems and all(p.severity.value == "warning" and any(w in p.message for w in DATA_QUALITY) for p in inputs.problems)
+    strict = load_paths([ROOT / "methods"], strict=True)
+    assert not strict.ok and len(strict.problems) == len(inputs.problems)
 
 
 @pytest.mark.parametrize("path", DEMO, ids=lambda p: p.stem)
@@ -40,7 +47,8 @@ def test_json_schema_rejects_what_the_loader_rejects() -> None:
 
 def test_starter_file_is_accepted_as_it_stands() -> None:
     load = load_method_bytes(starter_text("new-method", 'A "quoted" title').encode(), "new-method.yaml")
-    assert load.problems == ()
+    # the starter's acetic acid comes from the table, whose values are unverified: warnings, no errors
+    assert load.problems and all(p.severity.value == "warning" and any(w in p.message for w in DATA_QUALITY) for p in load.problems)
     assert load.method is not None and load.method.title == 'A "quoted" title'
 
 
@@ -140,7 +148,11 @@ def test_pka_at_the_working_temperature_without_enthalpy_is_a_warning() -> None:
     pka = "          - {value: 4.0, uncertainty: 0.02, temperature: 37, reference: r}"
     text = method_text(substance="x-acid", pka=pka, temperature="37").replace("        form: acid", "        charge: 0\n        form: acid")
     m, problems = _one(text)
-    assert [p.message for p in problems] == ["no enthalpy: the pKa is taken as independent of temperature, so the temperature sensitivity leaves out its change"]
+    assert [p.message for p in problems] == [
+        "no enthalpy: the pKa is taken as independent of temperature, so the temperature sensitivity leaves out its change",
+        "pKa1 of x-acid has no enthalpy of ionization ΔH°, and the working temperature reaches 37 °C: the 25 °C pKa is used unchanged, "
+        "and the uncertainty budget takes ΔH° as unknown within ±50 kJ/mol; state the enthalpy with its reference",
+    ]
     assert m.solutions[0].components[0].pka[0].at_working_temperature == 4.0
 
 
@@ -178,14 +190,15 @@ def run(*args: str, cwd: Path = ROOT) -> subprocess.CompletedProcess[str]:
 def test_new_then_check(tmp_path: Path) -> None:
     r = run("new", "my-method", cwd=tmp_path)
     assert r.returncode == 0 and (tmp_path / "my-method.yaml").exists()
-    assert run("check", "--strict", "my-method.yaml", cwd=tmp_path).returncode == 0
+    assert run("check", "my-method.yaml", cwd=tmp_path).returncode == 0
+    assert run("check", "--strict", "my-method.yaml", cwd=tmp_path).returncode == 1  # the table's unverified values
     again = run("new", "my-method", cwd=tmp_path)
     assert again.returncode == 1
     assert again.stderr.strip() == "dossier new: my-method.yaml exists; choose another name with -o or add --force"
     upper = run("new", "QC-M-0042", cwd=tmp_path)  # laboratories number their methods so
     assert upper.returncode == 0, upper.stderr
     assert "id: QC-M-0042 " in (tmp_path / "QC-M-0042.yaml").read_text(encoding="utf-8")
-    assert run("check", "--strict", "QC-M-0042.yaml", cwd=tmp_path).returncode == 0
+    assert run("check", "QC-M-0042.yaml", cwd=tmp_path).returncode == 0
     bad = run("new", "My Method", cwd=tmp_path)
     assert bad.returncode == 2
     assert bad.stderr.strip().endswith(
