@@ -279,6 +279,7 @@ def _run_build(args: argparse.Namespace) -> int:
     cached = len(outcome.analyses) - len(outcome.recomputed)
     reuse = f" ({cached} of {len(outcome.analyses)} methods unchanged, taken from the cache)" if cached else ""
     print(f"built {len(outcome.files)} files into {outcome.output}{reuse}; open {index.as_uri()} or run: dossier serve {outcome.output}")
+    print(f"fingerprint {outcome.fingerprint}")
     return EXIT_OK
 
 
@@ -303,6 +304,8 @@ def _run_verify(args: argparse.Namespace) -> int:
     report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True))
     for note in report.notes:
         print(f"note: {note}")
+    if report.fingerprint:
+        print(f"fingerprint {report.fingerprint}")
     for m in report.mismatches:
         print(str(m))
     if report.ok:

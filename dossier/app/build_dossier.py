@@ -35,10 +35,10 @@ from ..inputs.model import Method
 from ..inputs.substances import SubstanceTable, load_table
 from ..layout import LAYOUT
 from ..problems import Problem
-from ..publish.manifest import InputRecord, MethodRecord, dependency_versions, new_manifest, portable_path
+from ..publish.manifest import InputRecord, MethodRecord, dependency_versions, is_stamped, new_manifest, portable_path, stamp_text
 from ..publish.staging import PublishError, check_replaceable, output_lock, remove_stale_staging, staging_folder, swap_into_place
 from ..publish.writer import Writer
-from ..render.buildinfo import BuildInfo
+from ..render.buildinfo import STAMP_PLACEHOLDER, BuildInfo
 from ..render.context import BuildContext
 from ..render.site import render_dossier
 from .errors import UserError
@@ -107,6 +107,8 @@ class BuildOutcome:
     analyses : tuple of MethodAnalysis
     recomputed : tuple of str
         Ids of the methods analysed in this build (the others came from the cache).
+    fingerprint : str
+        The dossier's fingerprint (docs/manifest-format.md); empty when nothing was built.
     """
 
     ok: bool
@@ -116,6 +118,7 @@ class BuildOutcome:
     timings: dict[str, float] = field(default_factory=dict)
     analyses: tuple[MethodAnalysis, ...] = ()
     recomputed: tuple[str, ...] = ()
+    fingerprint: str = ""
 
 
 def build_time() -> str:
@@ -204,10 +207,10 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
         outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, opts.workers, rep, timings)
         diff = None if previous is None else diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build")
         files = _dossier_files(outcomes, ctx, diff, store, rep, timings)
-        written = _publish(files, inputs.methods, ctx, out, rep, timings)
+        written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings)
         if store:
             store.prune()  # what this build did not use
-    return BuildOutcome(True, inputs.problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed)
+    return BuildOutcome(True, inputs.problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed, fingerprint)
 
 
 def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
@@ -287,24 +290,57 @@ def _inputs_record(methods: tuple[Method, ...], table: SubstanceTable) -> tuple[
     return tuple(out)
 
 
-def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext, out: Path, rep: Reporter, timings: dict[str, float]) -> dict[str, str]:
-    """Write every file into a staging folder, the manifest last, and swap it into place."""
+def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext, out: Path, rep: Reporter,
+             timings: dict[str, float]) -> tuple[dict[str, str], str]:
+    """Stamp the pages and PDFs with the fingerprint, write every file into a
+    staging folder, the manifest last, and swap it into place.
+
+    The fingerprint seals the manifest without the stamped files
+    (:meth:`~dossier.publish.manifest.Manifest.fingerprint`), so it is
+    computed from the files as rendered, then shown on every page and PDF page.
+    """
     keys = _keys(methods, ctx)
+
+    def manifest_of(outputs: dict[str, tuple[str, int]]) -> Any:
+        return new_manifest(
+            build_time=ctx.info.time,
+            python=ctx.info.python,
+            settings=solver_settings(ctx.settings, ctx.pdf),
+            inputs=_inputs_record(methods, ctx.table),
+            methods=tuple(MethodRecord(m.id, m.revision, portable_path(m.path), m.source_sha256, keys[m.id]) for m in methods),
+            outputs=outputs,
+        )
+
+    with _timed(timings, "stamp the fingerprint"):
+        sealed = manifest_of({rel: (hashlib.sha256(data).hexdigest(), len(data)) for rel, data in files.items() if not is_stamped(rel)})
+        fingerprint = sealed.fingerprint()
+        stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty))
     with _timed(timings, "publish"), _as_publish_error(out):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
             writer = Writer(staging)
-            for rel in sorted(files):
-                writer.write(rel, files[rel])
-            manifest = new_manifest(
-                build_time=ctx.info.time,
-                python=ctx.info.python,
-                settings=solver_settings(ctx.settings, ctx.pdf),
-                inputs=_inputs_record(methods, ctx.table),
-                methods=tuple(MethodRecord(m.id, m.revision, portable_path(m.path), m.source_sha256, keys[m.id]) for m in methods),
-                outputs={rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written},
-            )
+            for rel in sorted(stamped):
+                writer.write(rel, stamped[rel])
+            manifest = manifest_of({rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written})
+            if manifest.fingerprint() != fingerprint:  # pragma: no cover - the sealed files are written as they are
+                raise RuntimeError("the fingerprint changed while the dossier was written")
             writer.write(LAYOUT.manifest, manifest.to_bytes())
             swap_into_place(staging, out)
         rep.step(f"published {len(writer.written)} files")
-    return dict(writer.written)
+    return dict(writer.written), fingerprint
+
+
+def _stamp(files: dict[str, bytes], line: str) -> dict[str, bytes]:
+    """Every page with its placeholder replaced by ``line``; every PDF with ``line`` at the foot of each page."""
+    from ..render.binder import stamp_every_page
+
+    placeholder, text = STAMP_PLACEHOLDER.encode(), line.encode()
+    out = {}
+    for rel, data in files.items():
+        if rel.endswith(".html"):
+            out[rel] = data.replace(placeholder, text)
+        elif rel.endswith(".pdf"):
+            out[rel] = stamp_every_page(data, line)
+        else:
+            out[rel] = data
+    return out

@@ -4,7 +4,9 @@
    no other file is there.
 2. Every ledger entry is re-computed from the inputs the ledger records (the
    whole analysis is re-run with the recorded settings and seed) and compared.
-3. When method files are given, each hashes to what the manifest recorded.
+3. The fingerprint the manifest records is the SHA-256 of its sealed part,
+   and every page and every PDF page shows it (with the tool's version and commit).
+4. When method files are given, each hashes to what the manifest recorded.
 
 Each mismatch is reported by file and entry.
 """
@@ -21,7 +23,7 @@ from ..analysis.ledger import ledger_entries
 from ..analysis.method import analyse_method
 from ..inputs.loader import find_method_files
 from ..layout import LAYOUT
-from ..publish.manifest import Manifest, ManifestError, sha256_file
+from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
 from .diff import NotADossier, read_ledger
 
 __all__ = ["Mismatch", "VerifyReport", "verify", "REL_TOL", "ABS_TOL"]
@@ -45,12 +47,14 @@ class Mismatch:
 
 @dataclass(frozen=True)
 class VerifyReport:
-    """The outcome: mismatches (empty when all matches), notes, and what was checked."""
+    """The outcome: mismatches (empty when all matches), notes, what was checked, and
+    the fingerprint re-computed from the manifest (empty when it could not be read)."""
 
     mismatches: tuple[Mismatch, ...]
     notes: tuple[str, ...]
     files_checked: int
     entries_checked: int
+    fingerprint: str = ""
 
     @property
     def ok(self) -> bool:
@@ -93,6 +97,7 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     if manifest.tool_version != __version__:
         notes.append(f"built with ph-dossier {manifest.tool_version}, verified with {__version__}: re-computed numbers may differ for that reason")
     mm = _check_files(out, manifest)
+    mm += _check_fingerprint(out, manifest)
     entries_checked = 0
     for m in manifest.methods:
         found, checked = _check_ledger(out, m.id, progress)
@@ -100,7 +105,39 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
         entries_checked += checked
     if methods is not None:
         mm += _check_method_files(manifest, methods)
-    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked)
+    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked, manifest.fingerprint())
+
+
+def _check_fingerprint(out: Path, manifest: Manifest) -> list[Mismatch]:
+    """The recorded fingerprint is the re-computed one, and every page and PDF page shows it."""
+    fingerprint = manifest.fingerprint()
+    if manifest.recorded_fingerprint != fingerprint:
+        return [Mismatch(LAYOUT.manifest, "fingerprint", f"recorded {manifest.recorded_fingerprint!r}, but the manifest's sealed part hashes to {fingerprint!r}")]
+    line = stamp_text(fingerprint, manifest.tool_version, manifest.git_commit, manifest.git_dirty)
+    mm: list[Mismatch] = []
+    for o in manifest.outputs:
+        p = out / o.path
+        if not p.is_file():
+            continue  # reported as missing
+        if o.path.endswith(".html"):
+            if line not in p.read_text(encoding="utf-8", errors="replace"):
+                mm.append(Mismatch(o.path, "footer", f"does not show this dossier's fingerprint line {line!r}"))
+        elif o.path.endswith(".pdf"):
+            for n, text in enumerate(pdf_page_texts(p), start=1):
+                if line not in text:
+                    mm.append(Mismatch(o.path, f"page {n}", f"does not show this dossier's fingerprint line {line!r}"))
+    return mm
+
+
+def pdf_page_texts(path: Path) -> list[str]:
+    """The text of each page of a PDF (pypdf's extraction; an unreadable PDF gives one empty page)."""
+    from pypdf import PdfReader
+    from pypdf.errors import PdfReadError
+
+    try:
+        return [page.extract_text() or "" for page in PdfReader(path).pages]
+    except (PdfReadError, ValueError, KeyError, TypeError, OSError):
+        return [""]
 
 
 def _check_files(out: Path, manifest: Manifest) -> list[Mismatch]:

@@ -4,7 +4,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["BuildInfo"]
+__all__ = ["BuildInfo", "STAMP_PLACEHOLDER"]
+
+STAMP_PLACEHOLDER = "@@ph-dossier-stamp@@"
+"""Where a page shows the dossier's fingerprint line. Pages are rendered (and
+cached) with this placeholder; the build replaces it with the fingerprint,
+tool version and commit when it publishes (the fingerprint seals the data
+files, so it is known only once every method is done)."""
 
 
 @dataclass(frozen=True)

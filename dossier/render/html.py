@@ -17,6 +17,7 @@ from markupsafe import Markup
 from .. import display
 from ..analysis.verdicts import VerdictStatus, format_percent
 from ..inputs.units import format_concentration
+from .buildinfo import STAMP_PLACEHOLDER
 
 __all__ = ["environment", "render", "markdown", "templates_dir", "reference_key", "CAUTIONS", "STATUS_MARK"]
 
@@ -80,6 +81,7 @@ def environment() -> jinja2.Environment:
         }
     )
     env.globals["cautions"] = CAUTIONS
+    env.globals["stamp"] = STAMP_PLACEHOLDER
     return env
 
 

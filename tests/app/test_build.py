@@ -122,7 +122,9 @@ def test_verify_command_exit_codes(tmp_path: Path) -> None:
     (out / "index.html").write_text("tampered", encoding="utf-8")
     bad = run("verify", str(out))
     assert bad.returncode == 1
-    assert bad.stdout.splitlines()[0].startswith("index.html: changed: SHA-256")
+    first, second = bad.stdout.splitlines()[:2]
+    assert first == f"fingerprint {json.loads((out / 'manifest.json').read_text(encoding='utf-8'))['fingerprint']}"
+    assert second.startswith("index.html: changed: SHA-256")
 
 
 def test_a_failed_write_leaves_the_previous_dossier_and_no_staging(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:

@@ -1,0 +1,116 @@
+"""Records an auditor accepts: the fingerprint, signatures, every published
+number verified (tests on one small real dossier, PDFs included)."""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import shutil
+import subprocess
+from collections.abc import Iterator
+from pathlib import Path
+
+import pytest
+
+from dossier.analysis.method import AnalysisSettings
+from dossier.app import BuildOptions, build, verify
+from tests.conftest import require_executable
+
+ROOT = Path(__file__).resolve().parents[2]
+FAST = AnalysisSettings(draws=2000, map_pka=21, map_conc=31)
+METHOD = "benzoate-extract"
+
+
+@pytest.fixture(scope="module")
+def dossier(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Path]:
+    """One method, with its PDF and the dossier PDF, built once for this module (never edited: copy it)."""
+    tmp = tmp_path_factory.mktemp("records")
+    shutil.copy(ROOT / "methods" / f"{METHOD}.yaml", tmp / f"{METHOD}.yaml")
+    with pytest.MonkeyPatch.context() as mp:
+        mp.setenv("SOURCE_DATE_EPOCH", "1767225600")
+        outcome = build([tmp / f"{METHOD}.yaml"], tmp / "output", BuildOptions(settings=FAST, workers=1, cache=False))
+    assert outcome.ok and len(outcome.fingerprint) == 64
+    yield tmp / "output"
+
+
+@pytest.fixture()
+def copy(dossier: Path, tmp_path: Path) -> Path:
+    """A copy of the dossier a test may tamper with."""
+    return Path(shutil.copytree(dossier, tmp_path / "copy"))
+
+
+def manifest(folder: Path) -> dict:
+    return json.loads((folder / "manifest.json").read_text(encoding="utf-8"))
+
+
+def rehash(folder: Path, rel: str) -> None:
+    """Forge the manifest's hash of ``rel`` to match the file as it is now."""
+    m = manifest(folder)
+    for o in m["outputs"]:
+        if o["path"] == rel:
+            data = (folder / rel).read_bytes()
+            o["sha256"], o["bytes"] = hashlib.sha256(data).hexdigest(), len(data)
+    (folder / "manifest.json").write_text(json.dumps(m, indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+
+
+# ---------------------------------------------------------------- fingerprint
+def sealed_hash(m: dict) -> str:
+    """The fingerprint as docs/manifest-format.md defines it, computed here independently."""
+    doc = {k: v for k, v in m.items() if k != "fingerprint"}
+    doc["outputs"] = [o for o in m["outputs"] if not o["path"].endswith((".html", ".pdf"))]
+    return hashlib.sha256(json.dumps(doc, sort_keys=True, separators=(",", ":"), ensure_ascii=False).encode("utf-8")).hexdigest()
+
+
+def test_fingerprint_is_the_hash_of_the_sealed_manifest(dossier: Path) -> None:
+    m = manifest(dossier)
+    assert m["fingerprint"] == sealed_hash(m)
+    sealed = {o["path"] for o in m["outputs"] if not o["path"].endswith((".html", ".pdf"))}
+    assert f"methods/{METHOD}/results.json" in sealed and f"methods/{METHOD}/ledger.json" in sealed
+
+
+def test_every_page_and_pdf_page_shows_the_fingerprint_version_and_commit(dossier: Path) -> None:
+    pdftotext = require_executable("pdftotext", "reads the PDFs' text")
+    m = manifest(dossier)
+    fp, version = m["fingerprint"], m["tool"]["version"]
+    pages = sorted(dossier.rglob("*.html"))
+    assert pages
+    for page in pages:
+        text = page.read_text(encoding="utf-8")
+        assert f"Dossier fingerprint {fp}" in text and f"ph-dossier {version}" in text, page
+    pdfs = sorted(dossier.rglob("*.pdf"))
+    assert {p.name for p in pdfs} == {"dossier.pdf", f"{METHOD}.pdf"}
+    for pdf in pdfs:
+        text = subprocess.run([pdftotext, "-layout", str(pdf), "-"], capture_output=True, text=True, check=True).stdout
+        pages_text = text.split("\f")[:-1]
+        assert len(pages_text) > 3
+        for n, page_text in enumerate(pages_text, start=1):
+            assert f"Dossier fingerprint {fp} - ph-dossier {version}" in page_text, f"{pdf.name} page {n}"
+            if m["tool"]["git_commit"]:
+                assert f"commit {m['tool']['git_commit'][:12]}" in page_text
+
+
+def test_every_font_of_the_pdfs_is_embedded(dossier: Path) -> None:
+    """The page stamps too (they once used a standard font that was not embedded)."""
+    pdffonts = require_executable("pdffonts", "lists the PDFs' fonts")
+    for pdf in sorted(dossier.rglob("*.pdf")):
+        rows = subprocess.run([pdffonts, str(pdf)], capture_output=True, text=True, check=True).stdout.splitlines()[2:]
+        assert rows
+        for row in rows:
+            assert row.split()[-5] == "yes", f"{pdf.name}: font not embedded: {row}"
+
+
+def test_verify_prints_the_fingerprint_and_refuses_a_forged_one(dossier: Path, copy: Path) -> None:
+    assert verify(dossier).fingerprint == manifest(dossier)["fingerprint"]
+    # a data file edited and its hash forged: the sealed part no longer hashes to the recorded fingerprint
+    results = copy / "methods" / METHOD / "results.json"
+    results.write_text(results.read_text(encoding="utf-8").replace('"title"', '"title" ', 1), encoding="utf-8")
+    rehash(copy, f"methods/{METHOD}/results.json")
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert any(line.startswith("manifest.json: fingerprint: recorded") for line in lines), lines
+    # the fingerprint forged too: now the pages show another one
+    m = manifest(copy)
+    m["fingerprint"] = sealed_hash(m)
+    (copy / "manifest.json").write_text(json.dumps(m, indent=2), encoding="utf-8")
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert "index.html: footer: does not show this dossier's fingerprint line" in "\n".join(lines)
+    assert any(line.startswith("dossier.pdf: page 1: does not show") for line in lines), lines
