@@ -64,6 +64,17 @@ class Layout:
     def figure(self, method_id: str, stem: str, extension: str) -> str:
         return self.method_folder(method_id) + f"figures/{stem}.{extension}"
 
+    # ---------------------------------------------------------------- beside the dossier
+    @staticmethod
+    def signatures_folder(dossier_name: str) -> str:
+        """The folder of a dossier's signatures, beside it in the same parent folder
+        (signing changes no byte of the dossier; a rebuild does not remove them).
+
+        >>> LAYOUT.signatures_folder("output")
+        'output.signatures'
+        """
+        return f"{dossier_name}.signatures"
+
     # ---------------------------------------------------------------- shared
     def equation(self, equation_id: str) -> str:
         """An equation drawn as SVG."""

@@ -15,6 +15,7 @@ from .errors import OptionError, UsageError, UserError
 from .jobs import Reporter, Silent
 from .methods import CheckOutcome, check, check_method_id, schema_document, starter, substance_table, write_starter
 from .serve import preview_server
+from .signing import KeyMade, Signed, keygen, sign
 from .solve import InlineSolution, MethodPoints, solve_file, solve_inline
 
 __all__ = [
@@ -24,6 +25,10 @@ __all__ = [
     "CheckOutcome",
     "DossierDiff",
     "InlineSolution",
+    "KeyMade",
+    "Signed",
+    "keygen",
+    "sign",
     "MethodPoints",
     "NotADossier",
     "OptionError",

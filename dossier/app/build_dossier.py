@@ -29,6 +29,7 @@ from ..analysis.ledger import Ledger
 from ..analysis.method import AnalysisSettings, MethodAnalysis
 from ..audit.cache import Cache, dossier_key, method_key
 from ..audit.diff import DossierDiff, NotADossier, diff_ledgers, read_ledgers
+from ..audit.signatures import check_signatures
 from ..chemistry import solver
 from ..inputs.loader import load_paths
 from ..inputs.model import Method
@@ -38,7 +39,7 @@ from ..problems import Problem
 from ..publish.manifest import InputRecord, MethodRecord, dependency_versions, is_stamped, new_manifest, portable_path, stamp_text
 from ..publish.staging import PublishError, check_replaceable, output_lock, remove_stale_staging, staging_folder, swap_into_place
 from ..publish.writer import Writer
-from ..render.buildinfo import STAMP_PLACEHOLDER, BuildInfo
+from ..render.buildinfo import STAMP_PLACEHOLDER, BuildInfo, RecordedSignature
 from ..render.context import BuildContext
 from ..render.site import render_dossier
 from .errors import UserError
@@ -206,7 +207,7 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
         store = Cache.beside(out) if opts.cache else None
         outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, opts.workers, rep, timings)
         diff = None if previous is None else diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build")
-        files = _dossier_files(outcomes, ctx, diff, store, rep, timings)
+        files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
         written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings)
         if store:
             store.prune()  # what this build did not use
@@ -245,8 +246,14 @@ def _method_outcomes(methods: tuple[Method, ...], ctx: BuildContext, store: Cach
     return tuple(got[m.id] for m in methods), tuple(m.id for m in todo)
 
 
-def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff: DossierDiff | None, store: Cache | None, rep: Reporter,
-                   timings: dict[str, float]) -> dict[str, bytes]:
+def _recorded_signatures(out: Path) -> tuple[RecordedSignature, ...]:
+    """The signatures beside the output before this build (each signed an earlier build)."""
+    return tuple(RecordedSignature(c.statement.signer, c.statement.meaning, c.statement.signed_at, c.statement.key_id, c.statement.fingerprint, c.valid)
+                 for c in check_signatures(out, None, None) if c.statement is not None)
+
+
+def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff: DossierDiff | None, recorded: tuple[RecordedSignature, ...],
+                   store: Cache | None, rep: Reporter, timings: dict[str, float]) -> dict[str, bytes]:
     """Every file of the dossier: each method's, then the dossier-wide pages and PDF (cached too)."""
     files: dict[str, bytes] = {}
     for o in outcomes:
@@ -254,13 +261,13 @@ def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff:
     if not ctx.site:
         return files
     diff_key = None if diff is None else hashlib.sha256(repr(diff).encode()).hexdigest()
-    key = dossier_key(list(_keys(tuple(o.analysis.method for o in outcomes), ctx).values()), {"pdf": ctx.pdf, "diff": diff_key})
+    key = dossier_key(list(_keys(tuple(o.analysis.method for o in outcomes), ctx).values()), {"pdf": ctx.pdf, "diff": diff_key, "signatures": [repr(r) for r in recorded]})
     site = store.get("dossier", key, dict) if store else None
     if site is None:
         with _timed(timings, "render the dossier pages" + (" and bind the dossier PDF" if ctx.pdf else "")):
             rep.stage("rendering the dossier", 1)
             pdfs = {o.analysis.method.id: o.files[LAYOUT.method_pdf(o.analysis.method.id)] for o in outcomes} if ctx.pdf else {}
-            site = render_dossier(tuple(o.analysis for o in outcomes), pdfs, ctx, diff)
+            site = render_dossier(tuple(o.analysis for o in outcomes), pdfs, ctx, diff, recorded)
             rep.step("index, references, calculations, provenance" + (", dossier.pdf" if ctx.pdf else ""))
         if store:
             store.put("dossier", key, site)

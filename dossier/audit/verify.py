@@ -7,6 +7,8 @@
 3. The fingerprint the manifest records is the SHA-256 of its sealed part,
    and every page and every PDF page shows it (with the tool's version and commit).
 4. When method files are given, each hashes to what the manifest recorded.
+5. Every signature beside the dossier is the signer's and signed this
+   dossier's fingerprint and manifest (:mod:`dossier.audit.signatures`).
 
 Each mismatch is reported by file and entry.
 """
@@ -25,8 +27,9 @@ from ..inputs.loader import find_method_files
 from ..layout import LAYOUT
 from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
 from .diff import NotADossier, read_ledger
+from .signatures import SignatureCheck, check_signatures, manifest_sha256
 
-__all__ = ["Mismatch", "VerifyReport", "verify", "REL_TOL", "ABS_TOL"]
+__all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "REL_TOL", "ABS_TOL"]
 
 REL_TOL = 1e-9
 ABS_TOL = 1e-12
@@ -55,6 +58,7 @@ class VerifyReport:
     files_checked: int
     entries_checked: int
     fingerprint: str = ""
+    signatures: tuple[SignatureCheck, ...] = ()
 
     @property
     def ok(self) -> bool:
@@ -105,7 +109,27 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
         entries_checked += checked
     if methods is not None:
         mm += _check_method_files(manifest, methods)
-    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked, manifest.fingerprint())
+    signed = check_signatures(out, manifest.fingerprint(), manifest_sha256(out))
+    mm += [Mismatch(s.file, "signature", s.problem) for s in signed if not s.applies]
+    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked, manifest.fingerprint(), signed)
+
+
+def check_integrity(output: str | Path) -> tuple[Manifest, list[Mismatch]]:
+    """The quick part of :func:`verify`: every file's hash and the fingerprint (no re-computation).
+
+    Raises
+    ------
+    NotADossier
+        When the folder is no dossier or its manifest cannot be read.
+    """
+    out = Path(output)
+    if not (out / LAYOUT.manifest).is_file():
+        raise NotADossier(f"not a dossier: no {LAYOUT.manifest} in {out}")
+    try:
+        manifest = Manifest.read(out)
+    except ManifestError as exc:
+        raise NotADossier(f"{out}: cannot read the manifest: {exc}") from None
+    return manifest, _check_files(out, manifest) + _check_fingerprint(out, manifest)
 
 
 def _check_fingerprint(out: Path, manifest: Manifest) -> list[Mismatch]:

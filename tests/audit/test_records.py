@@ -114,3 +114,89 @@ def test_verify_prints_the_fingerprint_and_refuses_a_forged_one(dossier: Path, c
     lines = [str(x) for x in verify(copy).mismatches]
     assert "index.html: footer: does not show this dossier's fingerprint line" in "\n".join(lines)
     assert any(line.startswith("dossier.pdf: page 1: does not show") for line in lines), lines
+
+
+# ---------------------------------------------------------------- signatures
+def tree(folder: Path) -> dict[str, str]:
+    return {p.relative_to(folder).as_posix(): hashlib.sha256(p.read_bytes()).hexdigest() for p in sorted(folder.rglob("*")) if p.is_file()}
+
+
+def dossier_cli(*args: str, cwd: Path) -> subprocess.CompletedProcess[str]:
+    import sys
+
+    return subprocess.run([sys.executable, "-m", "dossier", *args], cwd=cwd, capture_output=True, text=True, timeout=600)
+
+
+def test_keygen_writes_a_private_key_for_its_owner_only_and_never_into_a_dossier(copy: Path, tmp_path: Path) -> None:
+    r = dossier_cli("keygen", "keys/ana.key", "--name", "A. Analyst", cwd=tmp_path)
+    assert r.returncode == 0, r.stderr
+    key, pub = tmp_path / "keys" / "ana.key", tmp_path / "keys" / "ana.key.pub"
+    assert key.stat().st_mode & 0o777 == 0o600
+    public = json.loads(pub.read_text(encoding="utf-8"))
+    assert public["name"] == "A. Analyst" and "private_key" not in public
+    assert f"key id {public['key_id']}" in r.stdout
+    again = dossier_cli("keygen", "keys/ana.key", "--name", "A. Analyst", cwd=tmp_path)
+    assert again.returncode == 1 and "exists; a key is never overwritten" in again.stderr
+    inside = dossier_cli("keygen", str(copy / "methods" / "k.key"), "--name", "B", cwd=tmp_path)
+    assert inside.returncode == 1 and "a private key is never written into a dossier" in inside.stderr
+    assert not (copy / "methods" / "k.key").exists() and "Traceback" not in inside.stderr
+
+
+def test_sign_records_a_detached_signature_and_verify_checks_it(copy: Path, tmp_path: Path) -> None:
+    assert dossier_cli("keygen", "ana.key", "--name", "A. Analyst", cwd=tmp_path).returncode == 0
+    before = tree(copy)
+    r = dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "approved", cwd=tmp_path)
+    assert r.returncode == 0, r.stderr
+    assert tree(copy) == before  # no byte of the dossier changed
+    (sig,) = sorted((tmp_path / "copy.signatures").glob("*.json"))
+    st = json.loads(sig.read_text(encoding="utf-8"))["statement"]
+    fp = manifest(copy)["fingerprint"]
+    assert (st["signer"], st["meaning"], st["fingerprint"]) == ("A. Analyst", "approved", fp)
+    assert st["manifest_sha256"] == hashlib.sha256((copy / "manifest.json").read_bytes()).hexdigest()
+    report = verify(copy)
+    assert report.ok and len(report.signatures) == 1 and report.signatures[0].applies
+    # a signature whose statement was altered (reviewed → approved, say) no longer checks
+    doc = json.loads(sig.read_text(encoding="utf-8"))
+    doc["statement"]["meaning"] = "reviewed"
+    sig.write_text(json.dumps(doc), encoding="utf-8")
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert lines == [f"copy.signatures/{sig.name}: signature: the signature does not match its statement (altered or forged)"]
+
+
+def test_a_signature_does_not_apply_once_a_page_changed(copy: Path, tmp_path: Path) -> None:
+    assert dossier_cli("keygen", "ana.key", "--name", "A. Analyst", cwd=tmp_path).returncode == 0
+    assert dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "reviewed", cwd=tmp_path).returncode == 0
+    page = copy / "references.html"
+    page.write_text(page.read_text(encoding="utf-8").replace("<h1>", "<h1>Approved: ", 1), encoding="utf-8")
+    rehash(copy, "references.html")  # the page's hash forged; the fingerprint (pages excluded) is unchanged
+    report = verify(copy)
+    assert [str(x) for x in report.mismatches] == [
+        f"copy.signatures/{report.signatures[0].file.split('/')[-1]}: signature: signed another manifest.json "
+        "(same fingerprint, other pages or PDFs): the dossier changed since it was signed"]
+    # a damaged dossier (a file that no longer hashes to its record) is not signed at all
+    (copy / "index.html").write_text("edited", encoding="utf-8")
+    r = dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "approved", cwd=tmp_path)
+    assert r.returncode == 1 and "does not match its manifest, so it is not signed" in r.stderr
+
+
+def test_a_key_readable_by_others_is_refused(tmp_path: Path, copy: Path) -> None:
+    assert dossier_cli("keygen", "ana.key", "--name", "A. Analyst", cwd=tmp_path).returncode == 0
+    (tmp_path / "ana.key").chmod(0o644)
+    r = dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "approved", cwd=tmp_path)
+    assert r.returncode == 1 and "the private key is readable by others (mode 644)" in r.stderr
+    assert not (tmp_path / "copy.signatures").exists()
+
+
+def test_a_rebuilt_dossier_shows_that_earlier_signatures_no_longer_apply(copy: Path, tmp_path: Path) -> None:
+    assert dossier_cli("keygen", "ana.key", "--name", "A. Analyst", cwd=tmp_path).returncode == 0
+    assert dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "approved", cwd=tmp_path).returncode == 0
+    old = manifest(copy)["fingerprint"]
+    source = tmp_path / f"{METHOD}.yaml"
+    source.write_text((ROOT / "methods" / f"{METHOD}.yaml").read_text(encoding="utf-8") + "# a comment: the file's bytes changed\n", encoding="utf-8")
+    assert build([source], copy, BuildOptions(settings=FAST, workers=1, pdf=False, cache=False)).ok
+    assert manifest(copy)["fingerprint"] != old
+    provenance = (copy / "provenance.html").read_text(encoding="utf-8")
+    assert "Signatures recorded before this build: they signed an earlier build and do not apply to this one" in provenance
+    assert old in provenance and "A. Analyst" in provenance
+    report = verify(copy)
+    assert not report.ok and "the dossier changed since it was signed" in str(report.mismatches[-1])
