@@ -57,6 +57,10 @@ class Layout:
     def ledger_page(self, method_id: str) -> str:
         return self.method_folder(method_id) + "ledger.html"
 
+    def method_source(self, method_id: str) -> str:
+        """The method file as it was built, published beside its page (and attached to its PDF)."""
+        return self.method_folder(method_id) + f"{method_id}.yaml"
+
     def table(self, method_id: str, name: str) -> str:
         """A CSV table of a method (``name`` with its extension)."""
         return self.method_folder(method_id) + name

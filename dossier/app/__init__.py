@@ -8,7 +8,8 @@ subclass) with a message in the user's terms when a request cannot be done.
 """
 
 from ..audit.diff import DossierDiff, NotADossier, diff_dossiers
-from ..audit.verify import VerifyReport, verify
+from ..audit.verify import VerifyReport
+from .verifying import verify
 from ..analysis.method import AnalysisSettings
 from .build_dossier import BuildOptions, BuildOutcome, PreviousDossierError, analyse, build
 from .errors import OptionError, UsageError, UserError

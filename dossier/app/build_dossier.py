@@ -319,9 +319,11 @@ def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildCon
         )
 
     with _timed(timings, "stamp the fingerprint"):
+        sources = _method_sources(methods)
+        files = {**files, **sources}
         sealed = manifest_of({rel: (hashlib.sha256(data).hexdigest(), len(data)) for rel, data in files.items() if not is_stamped(rel)})
         fingerprint = sealed.fingerprint()
-        stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty))
+        stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty), sources)
     with _timed(timings, "publish"), _as_publish_error(out):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
@@ -337,17 +339,35 @@ def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildCon
     return dict(writer.written), fingerprint
 
 
-def _stamp(files: dict[str, bytes], line: str) -> dict[str, bytes]:
-    """Every page with its placeholder replaced by ``line``; every PDF with ``line`` at the foot of each page."""
+def _method_sources(methods: tuple[Method, ...]) -> dict[str, bytes]:
+    """Each method file as it was checked, under its dossier path (read again; it must not have changed)."""
+    out = {}
+    for m in methods:
+        try:
+            raw = Path(m.path).read_bytes()
+        except OSError as exc:
+            raise UserError(f"{m.path}: cannot read the method file again to publish it: {exc.strerror or exc}") from None
+        if hashlib.sha256(raw).hexdigest() != m.source_sha256:
+            raise UserError(f"{m.path}: the method file changed during the build; build again")
+        out[LAYOUT.method_source(m.id)] = raw
+    return out
+
+
+def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes]) -> dict[str, bytes]:
+    """Every page with its placeholder replaced by ``line``; every PDF with ``line`` at the
+    foot of each page and its method files attached (a method PDF its own, dossier.pdf all)."""
     from ..render.binder import stamp_every_page
 
     placeholder, text = STAMP_PLACEHOLDER.encode(), line.encode()
+    name = {rel: rel.rsplit("/", 1)[-1] for rel in sources}
     out = {}
     for rel, data in files.items():
         if rel.endswith(".html"):
             out[rel] = data.replace(placeholder, text)
         elif rel.endswith(".pdf"):
-            out[rel] = stamp_every_page(data, line)
+            mid = LAYOUT.method_of(rel)
+            own = {name[s]: sources[s] for s in sources if mid is None or LAYOUT.method_of(s) == mid}
+            out[rel] = stamp_every_page(data, line, attachments=own)
         else:
             out[rel] = data
     return out

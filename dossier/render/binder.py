@@ -20,7 +20,7 @@ from __future__ import annotations
 
 import html
 import io
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 from pypdf import PdfReader, PdfWriter
@@ -149,13 +149,17 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         page.merge_page(over)
 
 
-def stamp_every_page(pdf: bytes, line: str, *, bottom: float = FOOTER_BOTTOM, size: float = 6.0) -> bytes:
-    """The PDF with ``line`` at the foot of every page (the dossier's fingerprint, say).
+def stamp_every_page(pdf: bytes, line: str, *, attachments: Mapping[str, bytes] | None = None, bottom: float = FOOTER_BOTTOM,
+                     size: float = 6.0) -> bytes:
+    """The PDF with ``line`` at the foot of every page (the dossier's fingerprint, say)
+    and ``attachments`` ({file name: bytes}, the method files) embedded as files.
 
     Same inputs give the same bytes; document information and outline are kept.
     """
     writer = PdfWriter(clone_from=PdfReader(io.BytesIO(pdf)))
     overlay_lines(writer, [line] * len(writer.pages), bottom=bottom, size=size)
+    for name, data in sorted((attachments or {}).items()):
+        writer.add_attachment(name, data)
     out = io.BytesIO()
     writer.write(out)
     return out.getvalue()

@@ -15,6 +15,7 @@ from markdown_it import MarkdownIt
 from markupsafe import Markup
 
 from .. import display
+from ..layout import LAYOUT
 from ..analysis.verdicts import VerdictStatus, format_percent
 from ..inputs.units import format_concentration
 from .buildinfo import STAMP_PLACEHOLDER
@@ -82,6 +83,7 @@ def environment() -> jinja2.Environment:
     )
     env.globals["cautions"] = CAUTIONS
     env.globals["stamp"] = STAMP_PLACEHOLDER
+    env.globals["LAYOUT"] = LAYOUT
     return env
 
 

@@ -31,7 +31,7 @@ from .html import render
 if TYPE_CHECKING:
     from ..analysis.changes import DossierDiff
 
-__all__ = ["BuildInfo", "BuildContext", "RefView", "shared_assets", "render_method", "render_dossier", "references_for"]
+__all__ = ["BuildInfo", "BuildContext", "RefView", "shared_assets", "data_files", "render_method", "render_dossier", "references_for"]
 
 
 @dataclass(frozen=True)
@@ -168,6 +168,16 @@ def _json(document: object) -> bytes:
     return (json.dumps(document, indent=2, ensure_ascii=False) + "\n").encode()
 
 
+def data_files(a: MethodAnalysis, table_sha256: str) -> dict[str, bytes]:
+    """A method's data files: results.json and its CSV tables, under their dossier paths
+    (also what ``dossier verify`` compares the published ones with)."""
+    mid = a.method.id
+    files: dict[str, bytes] = {LAYOUT.results(mid): _json(results_document(a, table_sha256))}
+    for name, text in csv_tables(a).items():
+        files[LAYOUT.table(mid, name)] = text.encode()
+    return files
+
+
 def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[str, bytes]:
     """Every file of one method under its dossier path.
 
@@ -175,9 +185,7 @@ def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[
     page and ledger page; with ``ctx.pdf`` its PDF too.
     """
     mid = a.method.id
-    files: dict[str, bytes] = {LAYOUT.results(mid): _json(results_document(a, ctx.table.sha256))}
-    for name, text in csv_tables(a).items():
-        files[LAYOUT.table(mid, name)] = text.encode()
+    files = data_files(a, ctx.table.sha256)
     figures = method_figures(a) if ctx.figures else ()
     for f in figures:
         files[LAYOUT.figure(mid, f.stem, "svg")] = f.svg

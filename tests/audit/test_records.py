@@ -200,3 +200,101 @@ def test_a_rebuilt_dossier_shows_that_earlier_signatures_no_longer_apply(copy: P
     assert old in provenance and "A. Analyst" in provenance
     report = verify(copy)
     assert not report.ok and "the dossier changed since it was signed" in str(report.mismatches[-1])
+
+
+# ---------------------------------------------------------------- every published number
+def forge(folder: Path, *rels: str) -> None:
+    """The careful tamper: hashes of the edited files updated, the fingerprint re-sealed and
+    written into every page in place of the old one (only the PDFs still show the old one)."""
+    for rel in rels:
+        rehash(folder, rel)
+    m = manifest(folder)
+    old, new = m["fingerprint"], sealed_hash(m)
+    for page in folder.rglob("*.html"):
+        page.write_text(page.read_text(encoding="utf-8").replace(old, new), encoding="utf-8")
+    for o in m["outputs"]:
+        if o["path"].endswith(".html"):
+            data = (folder / o["path"]).read_bytes()
+            o["sha256"], o["bytes"] = hashlib.sha256(data).hexdigest(), len(data)
+    m["fingerprint"] = new
+    (folder / "manifest.json").write_text(json.dumps(m, indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+
+
+def test_the_careful_tamper_of_the_exact_ph_is_caught_in_every_file(copy: Path) -> None:
+    """The exact pH changed in results.json, on the method page and a validity bound in
+    validity.csv, hashes and fingerprint forged: verify names each file, place and both values."""
+    folder = copy / "methods" / METHOD
+    results = json.loads((folder / "results.json").read_text(encoding="utf-8"))
+    true_ph = results["solutions"][0]["exact"]["ph"]
+    results["solutions"][0]["exact"]["ph"] = true_ph + 0.03
+    (folder / "results.json").write_text(json.dumps(results, indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+    page = (folder / "index.html").read_text(encoding="utf-8")
+    link = f'href="ledger.html#L-{results["solutions"][0]["id"]}/exact/ph">'
+    shown = page.split(link, 1)[1].split("<", 1)[0]
+    forged = f"{float(shown) + 0.03:.{len(shown.split('.')[1])}f}"
+    (folder / "index.html").write_text(page.replace(link + shown, link + forged), encoding="utf-8")
+    rows = (folder / "validity.csv").read_text(encoding="utf-8").splitlines()
+    cells = rows[1].split(",")
+    low = cells[4]
+    cells[4] = repr(float(low) * 1.5)
+    (folder / "validity.csv").write_text("\n".join([rows[0], ",".join(cells), *rows[2:]]) + "\n", encoding="utf-8")
+    forge(copy, f"methods/{METHOD}/results.json", f"methods/{METHOD}/validity.csv")
+
+    report = verify(copy)
+    lines = [str(x) for x in report.mismatches]
+    assert f"methods/{METHOD}/results.json: solutions[0].exact.ph: shows {true_ph + 0.03!r}, re-computed {true_ph!r}" in lines
+    assert f"methods/{METHOD}/index.html: number linked to {results['solutions'][0]['id']}/exact/ph: shows {forged}, re-computed {true_ph!r}" in lines
+    assert f"methods/{METHOD}/validity.csv: line 2, column low: shows {cells[4]!r}, re-computed {low!r}" in lines
+    assert not any(line.startswith("manifest.json: fingerprint") for line in lines)  # the forgery of the seal itself held
+    assert not any(".html: footer" in line for line in lines)
+
+
+def test_a_pdf_whose_ledger_appendix_shows_other_numbers_is_caught(copy: Path, tmp_path: Path) -> None:
+    """A method PDF replaced by one made with another seed (its Monte-Carlo numbers differ), hash forged."""
+    source = tmp_path / f"{METHOD}.yaml"
+    shutil.copy(ROOT / "methods" / f"{METHOD}.yaml", source)
+    other = tmp_path / "other"
+    settings = AnalysisSettings(draws=FAST.draws, seed=FAST.seed + 1, map_pka=FAST.map_pka, map_conc=FAST.map_conc)
+    assert build([source], other, BuildOptions(settings=settings, workers=1, cache=False)).ok
+    rel = f"methods/{METHOD}/{METHOD}.pdf"
+    shutil.copy(other / rel, copy / rel)
+    rehash(copy, rel)
+    lines = [str(x) for x in verify(copy).mismatches]
+    mc = [line for line in lines if line.startswith(f"{rel}: page ") and "/mc_mean: shows " in line]
+    assert mc, lines
+    assert ", re-computed " in mc[0]
+
+
+# ---------------------------------------------------------------- the method files in the dossier
+def test_each_method_file_is_published_beside_its_page_and_attached_to_the_pdfs(dossier: Path) -> None:
+    from pypdf import PdfReader
+
+    source = (ROOT / "methods" / f"{METHOD}.yaml").read_bytes()
+    assert (dossier / "methods" / METHOD / f"{METHOD}.yaml").read_bytes() == source
+    assert f'href="{METHOD}.yaml"' in (dossier / "methods" / METHOD / "index.html").read_text(encoding="utf-8")
+    assert f'href="methods/{METHOD}/{METHOD}.yaml"' in (dossier / "provenance.html").read_text(encoding="utf-8")
+    for pdf in (dossier / "dossier.pdf", dossier / "methods" / METHOD / f"{METHOD}.pdf"):
+        attached = PdfReader(pdf).attachments
+        assert list(attached) == [f"{METHOD}.yaml"]
+        assert attached[f"{METHOD}.yaml"][0] == source
+    sealed = {o["path"] for o in manifest(dossier)["outputs"] if not o["path"].endswith((".html", ".pdf"))}
+    assert f"methods/{METHOD}/{METHOD}.yaml" in sealed  # the fingerprint seals the method file itself
+
+
+def test_a_pdf_with_another_method_file_attached_is_caught(copy: Path) -> None:
+    import io
+
+    from pypdf import PdfReader, PdfWriter
+
+    rel = f"methods/{METHOD}/{METHOD}.pdf"
+    writer = PdfWriter()
+    for page in PdfReader(copy / rel).pages:
+        writer.add_page(page)
+    edited = (ROOT / "methods" / f"{METHOD}.yaml").read_bytes().replace(b"revision:", b"revision: 9 #", 1)
+    writer.add_attachment(f"{METHOD}.yaml", edited)
+    buf = io.BytesIO()
+    writer.write(buf)
+    (copy / rel).write_bytes(buf.getvalue())
+    rehash(copy, rel)
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert any(line.startswith(f"{rel}: attachment {METHOD}.yaml: SHA-256 ") and "is not the method file the manifest records" in line for line in lines), lines
