@@ -19,7 +19,7 @@ import platform
 import time
 from collections.abc import Iterator, Sequence
 from contextlib import contextmanager
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from datetime import datetime, timezone
 from pathlib import Path
 from typing import Any
@@ -35,14 +35,15 @@ from ..inputs.loader import load_paths
 from ..inputs.model import Method
 from ..inputs.substances import SubstanceTable, load_table
 from ..layout import LAYOUT
-from ..problems import Problem
-from ..publish.manifest import InputRecord, MethodRecord, dependency_versions, is_stamped, new_manifest, portable_path, stamp_text
+from ..problems import Problem, has_errors
+from ..publish.manifest import InputRecord, Manifest, ManifestError, MethodRecord, dependency_versions, is_stamped, new_manifest, portable_path, stamp_text
 from ..publish.staging import PublishError, check_replaceable, output_lock, remove_stale_staging, staging_folder, swap_into_place
 from ..publish.writer import Writer
 from ..render.buildinfo import STAMP_PLACEHOLDER, BuildInfo, RecordedSignature
 from ..render.context import BuildContext
 from ..render.site import render_dossier
 from .errors import UserError
+from .revisions import revision_problems
 from .jobs import MethodOutcome, Reporter, Silent, WorkerPool, expected_cost, method_job
 
 __all__ = ["BuildOptions", "BuildOutcome", "PreviousDossierError", "OutputError", "build", "analyse", "build_time", "solver_settings"]
@@ -199,6 +200,12 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
     if not inputs.ok or not inputs.methods:
         return BuildOutcome(False, inputs.problems, out, timings=timings)
     previous = _previous_ledgers(opts.previous)
+    previous_identity = _previous_identity(opts.previous)
+    problems = inputs.problems
+    if previous is not None:
+        problems += revision_problems(inputs.methods, previous, portable_path(opts.previous or ""), strict=opts.strict)
+        if has_errors(problems):
+            return BuildOutcome(False, problems, out, timings=timings)
     check_replaceable(out)
     with output_lock(out):
         remove_stale_staging(out)
@@ -206,12 +213,14 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
         ctx = BuildContext(table, opts.settings, info, pdf=opts.pdf and opts.site, site=opts.site, figures=opts.figures or opts.site)
         store = Cache.beside(out) if opts.cache else None
         outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, opts.workers, rep, timings)
-        diff = None if previous is None else diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build")
+        diff = None if previous is None else replace(
+            diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build"),
+            old_fingerprint=previous_identity[0], old_built=previous_identity[1])
         files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
         written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings)
         if store:
             store.prune()  # what this build did not use
-    return BuildOutcome(True, inputs.problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed, fingerprint)
+    return BuildOutcome(True, problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed, fingerprint)
 
 
 def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
@@ -221,6 +230,17 @@ def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
         return read_ledgers(Path(previous))
     except NotADossier as exc:
         raise PreviousDossierError(f"{previous} is not a dossier built before: {exc}") from None
+
+
+def _previous_identity(previous: Path | None) -> tuple[str | None, str | None]:
+    """The previous dossier's fingerprint (None when it predates fingerprints) and build time."""
+    if previous is None:
+        return None, None
+    try:
+        m = Manifest.read(Path(previous))
+    except ManifestError:
+        return None, None
+    return (m.fingerprint() if m.recorded_fingerprint else None), m.build_time
 
 
 def _keys(methods: tuple[Method, ...], ctx: BuildContext) -> dict[str, str]:

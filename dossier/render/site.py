@@ -213,12 +213,12 @@ def render_dossier(analyses: tuple[MethodAnalysis, ...], reports: dict[str, byte
     provenance page and the dossier's signature page as not applying to it)."""
     files = {**shared_assets(), **_dossier_pages(analyses, ctx, diff, recorded)}
     if ctx.pdf:
-        files[LAYOUT.dossier_pdf] = _dossier_pdf(analyses, reports, ctx, files, recorded)
+        files[LAYOUT.dossier_pdf] = _dossier_pdf(analyses, reports, ctx, files, recorded, diff)
     return files
 
 
 def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], ctx: BuildContext, files: dict[str, bytes],
-                 recorded: Sequence[RecordedSignature]) -> bytes:
+                 recorded: Sequence[RecordedSignature], diff: DossierDiff | None = None) -> bytes:
     """The PDF of the whole dossier, bound from the method PDFs.
 
     The dossier's front matter (cover, contents, verdicts at a glance) and
@@ -236,7 +236,7 @@ def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes]
         for a, n in zip(analyses, lengths):
             starts[a.method.id] = page
             page += n
-        doc = _document(render("pdf_dossier.html", root="", build=ctx.info, analyses=analyses, starts=starts, signatures_page=page, recorded=recorded, **_common()), "", files)
+        doc = _document(render("pdf_dossier.html", root="", build=ctx.info, analyses=analyses, starts=starts, signatures_page=page, recorded=recorded, diff=diff, **_common()), "", files)
         split = next(i for i, pg in enumerate(doc.pages) if "dossier-signatures" in pg.anchors)
         if split == n_front:
             break
