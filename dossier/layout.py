@@ -28,6 +28,7 @@ class Layout:
     manifest: str = "manifest.json"
     index: str = "index.html"
     dossier_pdf: str = "dossier.pdf"
+    dossier_workbook: str = "dossier.xlsx"
     changes: str = "changes.html"
     references: str = "references.html"
     calculations: str = "calculations.html"
@@ -60,6 +61,10 @@ class Layout:
     def method_source(self, method_id: str) -> str:
         """The method file as it was built, published beside its page (and attached to its PDF)."""
         return self.method_folder(method_id) + f"{method_id}.yaml"
+
+    def workbook(self, method_id: str) -> str:
+        """The method's tables as one spreadsheet, beside its results.json."""
+        return self.method_folder(method_id) + f"{method_id}.xlsx"
 
     def table(self, method_id: str, name: str) -> str:
         """A CSV table of a method (``name`` with its extension)."""

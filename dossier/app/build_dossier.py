@@ -266,6 +266,31 @@ def _method_outcomes(methods: tuple[Method, ...], ctx: BuildContext, store: Cach
     return tuple(got[m.id] for m in methods), tuple(m.id for m in todo)
 
 
+def _dossier_workbook(outcomes: tuple[MethodOutcome, ...]) -> bytes:
+    """One workbook for the whole dossier: the validity and sensitivity tables of every
+    method, one sheet each, with a first column naming the method (the sweeps are in each
+    method's own workbook)."""
+    import csv
+    import io
+
+    from ..render.workbooks import workbook
+
+    sheets = {}
+    for name in ("validity.csv", "sensitivity.csv"):
+        buf = io.StringIO()
+        w = csv.writer(buf, lineterminator="\n")
+        header_written = False
+        for o in outcomes:
+            mid = o.analysis.method.id
+            rows = list(csv.reader(io.StringIO(o.files[LAYOUT.table(mid, name)].decode("utf-8"))))
+            if not header_written:
+                w.writerow(["method", *rows[0]])
+                header_written = True
+            w.writerows([mid, *r] for r in rows[1:])
+        sheets[name] = buf.getvalue()
+    return workbook(sheets)
+
+
 def _recorded_signatures(out: Path) -> tuple[RecordedSignature, ...]:
     """The signatures beside the output before this build (each signed an earlier build)."""
     return tuple(RecordedSignature(c.statement.signer, c.statement.meaning, c.statement.signed_at, c.statement.key_id, c.statement.fingerprint, c.valid)
@@ -278,6 +303,7 @@ def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff:
     files: dict[str, bytes] = {}
     for o in outcomes:
         files.update(o.files)
+    files[LAYOUT.dossier_workbook] = _dossier_workbook(outcomes)
     if not ctx.site:
         return files
     diff_key = None if diff is None else hashlib.sha256(repr(diff).encode()).hexdigest()

@@ -30,7 +30,7 @@ from collections.abc import Iterator, Mapping
 from dataclasses import dataclass
 from typing import Any
 
-__all__ = ["Difference", "compare_json", "compare_csv", "parse_shown", "shown_matches", "page_numbers", "ledger_lines"]
+__all__ = ["Difference", "compare_json", "compare_csv", "compare_workbook", "parse_shown", "shown_matches", "page_numbers", "ledger_lines"]
 
 REL_TOL = 1e-9
 ABS_TOL = 1e-12
@@ -107,6 +107,39 @@ def compare_csv(file: str, shown: str, fresh: str) -> Iterator[Difference]:
                 same = False
             if not same:
                 yield Difference(file, f"line {r}, column {name}", f"shows {x!r}, re-computed {y!r}")
+
+
+def compare_workbook(file: str, shown: bytes, fresh: bytes) -> Iterator[Difference]:
+    """Every cell of every sheet of a published workbook against the same workbook made afresh."""
+    from openpyxl import load_workbook
+
+    try:
+        a = load_workbook(io.BytesIO(shown), read_only=True, data_only=True)
+    except Exception as exc:  # noqa: BLE001 - any damage of the file is a finding, not a crash
+        yield Difference(file, "", f"cannot be read as a workbook: {type(exc).__name__}: {exc}")
+        return
+    b = load_workbook(io.BytesIO(fresh), read_only=True, data_only=True)
+    if a.sheetnames != b.sheetnames:
+        yield Difference(file, "sheets", f"shows {a.sheetnames}, re-computed {b.sheetnames}")
+        return
+    for name in b.sheetnames:
+        rows_a, rows_b = list(a[name].iter_rows(values_only=True)), list(b[name].iter_rows(values_only=True))
+        if len(rows_a) != len(rows_b):
+            yield Difference(file, f"sheet {name}", f"shows {len(rows_a)} rows, re-computed {len(rows_b)}")
+        for r, (ra, rb) in enumerate(zip(rows_a, rows_b), start=1):
+            for c, (x, y) in enumerate(zip(ra, rb)):
+                same = x == y or (isinstance(x, (int, float)) and isinstance(y, (int, float)) and not isinstance(x, bool) and _close(float(x), float(y)))
+                if not same:
+                    yield Difference(file, f"sheet {name}, cell {_column(c)}{r}", f"shows {x!r}, re-computed {y!r}")
+
+
+def _column(index: int) -> str:
+    name = ""
+    index += 1
+    while index:
+        index, rest = divmod(index - 1, 26)
+        name = chr(65 + rest) + name
+    return name
 
 
 # ---------------------------------------------------------------- numbers as people read them

@@ -34,7 +34,7 @@ from ..inputs.loader import find_method_files
 from ..layout import LAYOUT
 from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
 from .diff import NotADossier, read_ledger
-from .numbers import compare_csv, compare_json, ledger_lines, page_numbers, shown_matches
+from .numbers import compare_csv, compare_json, compare_workbook, ledger_lines, page_numbers, shown_matches
 from .signatures import SignatureCheck, check_signatures, manifest_sha256
 
 __all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "REL_TOL", "ABS_TOL"]
@@ -263,6 +263,8 @@ def _check_data_files(out: Path, fresh: Fresh, data_files: DataFiles) -> list[Mi
             diffs = compare_json(rel, shown, json.loads(data))
         elif rel.endswith(".csv"):
             diffs = compare_csv(rel, p.read_text(encoding="utf-8", errors="replace"), data.decode("utf-8"))
+        elif rel.endswith(".xlsx"):
+            diffs = compare_workbook(rel, p.read_bytes(), data)
         else:
             continue
         mm += [Mismatch(d.file, d.place, d.message) for d in diffs]

@@ -169,12 +169,17 @@ def _json(document: object) -> bytes:
 
 
 def data_files(a: MethodAnalysis, table_sha256: str) -> dict[str, bytes]:
-    """A method's data files: results.json and its CSV tables, under their dossier paths
-    (also what ``dossier verify`` compares the published ones with)."""
+    """A method's data files: results.json, its CSV tables (headers with units) and the
+    same tables as one workbook, under their dossier paths (also what ``dossier verify``
+    compares the published ones with)."""
+    from .workbooks import with_units, workbook
+
     mid = a.method.id
     files: dict[str, bytes] = {LAYOUT.results(mid): _json(results_document(a, table_sha256))}
-    for name, text in csv_tables(a).items():
+    tables = {name: with_units(text) for name, text in csv_tables(a).items()}
+    for name, text in tables.items():
         files[LAYOUT.table(mid, name)] = text.encode()
+    files[LAYOUT.workbook(mid)] = workbook(tables)
     return files
 
 

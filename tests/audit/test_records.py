@@ -298,3 +298,49 @@ def test_a_pdf_with_another_method_file_attached_is_caught(copy: Path) -> None:
     rehash(copy, rel)
     lines = [str(x) for x in verify(copy).mismatches]
     assert any(line.startswith(f"{rel}: attachment {METHOD}.yaml: SHA-256 ") and "is not the method file the manifest records" in line for line in lines), lines
+
+
+# ---------------------------------------------------------------- spreadsheets
+def test_each_method_has_a_workbook_with_numbers_as_numbers_and_units_in_the_headers(dossier: Path) -> None:
+    import csv
+
+    from openpyxl import load_workbook
+
+    folder = dossier / "methods" / METHOD
+    book = load_workbook(folder / f"{METHOD}.xlsx", read_only=True)
+    index = {sheet: table for sheet, table in list(book["tables"].iter_rows(values_only=True))[1:]}
+    assert set(index.values()) == {p.name for p in folder.glob("*.csv")}
+    for sheet, table in index.items():
+        rows = list(book[sheet].iter_rows(values_only=True))
+        with open(folder / table, encoding="utf-8", newline="") as fh:
+            csv_rows = list(csv.reader(fh))
+        assert list(rows[0]) == csv_rows[0]  # the same headers, with units
+        for got, want in zip(rows[1:], csv_rows[1:]):
+            for g, w in zip(got, want):
+                try:
+                    number = float(w)
+                except ValueError:
+                    assert str(g) == w
+                else:
+                    assert isinstance(g, (int, float)) and g == pytest.approx(number, rel=1e-12)  # numbers as numbers
+    assert "total [mol/L]" in open(next(folder.glob("*-concentration-sweep.csv")), encoding="utf-8").readline()
+    assert "exact pH [pH]" in open(next(folder.glob("*-concentration-sweep.csv")), encoding="utf-8").readline()
+    assert "contribution to u [pH]" in (folder / "sensitivity.csv").read_text(encoding="utf-8").splitlines()[0]
+    whole = load_workbook(dossier / "dossier.xlsx", read_only=True)
+    validity = list(whole["validity"].iter_rows(values_only=True))
+    assert validity[0][0] == "method" and {r[0] for r in validity[1:]} == {METHOD}
+    assert len(validity) == len((folder / "validity.csv").read_text(encoding="utf-8").splitlines())
+
+
+def test_a_workbook_with_a_changed_number_is_caught(copy: Path) -> None:
+    from openpyxl import load_workbook
+
+    rel = f"methods/{METHOD}/{METHOD}.xlsx"
+    book = load_workbook(copy / rel)
+    sheet = book["validity"]
+    true_low = sheet["E2"].value
+    sheet["E2"] = true_low * 2
+    book.save(copy / rel)
+    forge(copy, rel)
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert f"{rel}: sheet validity, cell E2: shows {true_low * 2!r}, re-computed {true_low!r}" in lines
