@@ -244,7 +244,7 @@ def test_the_careful_tamper_of_the_exact_ph_is_caught_in_every_file(copy: Path) 
     lines = [str(x) for x in report.mismatches]
     assert f"methods/{METHOD}/results.json: solutions[0].exact.ph: shows {true_ph + 0.03!r}, re-computed {true_ph!r}" in lines
     assert f"methods/{METHOD}/index.html: number linked to {results['solutions'][0]['id']}/exact/ph: shows {forged}, re-computed {true_ph!r}" in lines
-    assert f"methods/{METHOD}/validity.csv: line 2, column low: shows {cells[4]!r}, re-computed {low!r}" in lines
+    assert f"methods/{METHOD}/validity.csv: line 2, column low [unit of range of]: shows {cells[4]!r}, re-computed {low!r}" in lines
     assert not any(line.startswith("manifest.json: fingerprint") for line in lines)  # the forgery of the seal itself held
     assert not any(".html: footer" in line for line in lines)
 
