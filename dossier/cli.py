@@ -279,6 +279,7 @@ def _run_build(args: argparse.Namespace) -> int:
     cached = len(outcome.analyses) - len(outcome.recomputed)
     reuse = f" ({cached} of {len(outcome.analyses)} methods unchanged, taken from the cache)" if cached else ""
     print(f"built {len(outcome.files)} files into {outcome.output}{reuse}; open {index.as_uri()} or run: dossier serve {outcome.output}")
+    print(f"fingerprint {outcome.fingerprint}")
     return EXIT_OK
 
 
@@ -303,13 +304,60 @@ def _run_verify(args: argparse.Namespace) -> int:
     report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True))
     for note in report.notes:
         print(f"note: {note}")
+    if report.fingerprint:
+        print(f"fingerprint {report.fingerprint}")
+    for c in report.signatures:
+        if c.statement is not None:
+            state = "valid" if c.applies else "DOES NOT APPLY"
+            print(f"signature: {c.statement.signer} ({c.statement.meaning}, {c.statement.signed_at}, key {c.statement.key_id}): {state}")
     for m in report.mismatches:
         print(str(m))
     if report.ok:
-        print(f"{args.output}: everything matches ({report.files_checked} files, {report.entries_checked} ledger entries re-computed)")
+        signed = f", {len(report.signatures)} signature(s)" if report.signatures else ""
+        print(f"{args.output}: everything matches ({report.files_checked} files, {report.entries_checked} ledger entries re-computed{signed})")
         return EXIT_OK
     print(f"{args.output}: {len(report.mismatches)} mismatch(es)")
     return EXIT_INPUT
+
+
+def _add_keygen(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("keygen", help="make a personal key pair for signing dossiers",
+                       description=("Make a personal Ed25519 key pair: the private key in FILE, readable by you only "
+                                    "(never inside a dossier), the public key in FILE.pub for your laboratory's register of keys."))
+    p.add_argument("file", metavar="FILE", help="where to write the private key (FILE.pub gets the public key)")
+    p.add_argument("--name", required=True, help='your name as it appears with your signatures, e.g. "A. Analyst"')
+    p.set_defaults(run=_run_keygen)
+
+
+def _run_keygen(args: argparse.Namespace) -> int:
+    from .app import keygen
+
+    made = keygen(args.file, args.name)
+    print(f"wrote the private key {made.private} (readable by you only; keep it secret) and the public key {made.public}")
+    print(f"key id {made.key_id}")
+    return EXIT_OK
+
+
+def _add_sign(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("sign", help="sign a built dossier (a detached signature beside it)",
+                       description=("Check a built dossier against its manifest, then record a detached signature over its "
+                                    "fingerprint and manifest, with your name, the meaning and the time, in DOSSIER.signatures/ "
+                                    "beside it. No byte of the dossier changes."))
+    p.add_argument("dossier", metavar="DOSSIER", help="the built dossier folder")
+    p.add_argument("--key", required=True, metavar="FILE", help="your private key (from dossier keygen)")
+    p.add_argument("--meaning", required=True, choices=["prepared", "reviewed", "approved"], help="what your signature says you did")
+    p.set_defaults(run=_run_sign)
+
+
+def _run_sign(args: argparse.Namespace) -> int:
+    from .app import sign
+
+    done = sign(args.dossier, args.key, args.meaning)
+    st = done.statement
+    print(f"{st.signer} signed {args.dossier} as {st.meaning} at {st.signed_at} (key {st.key_id})")
+    print(f"fingerprint {st.fingerprint}")
+    print(f"signature {done.file}")
+    return EXIT_OK
 
 
 def _add_diff(sub: argparse._SubParsersAction) -> None:
@@ -477,7 +525,7 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
-_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_build, _add_serve, _add_verify, _add_diff, _add_schema, _add_substances]
+_COMMANDS: list[Callable[[argparse._SubParsersAction], None]] = [_add_new, _add_check, _add_solve, _add_analyse, _add_build, _add_serve, _add_verify, _add_keygen, _add_sign, _add_diff, _add_schema, _add_substances]
 
 
 def _terminate_as_interrupt() -> None:

@@ -28,6 +28,7 @@ class Layout:
     manifest: str = "manifest.json"
     index: str = "index.html"
     dossier_pdf: str = "dossier.pdf"
+    dossier_workbook: str = "dossier.xlsx"
     changes: str = "changes.html"
     references: str = "references.html"
     calculations: str = "calculations.html"
@@ -57,12 +58,31 @@ class Layout:
     def ledger_page(self, method_id: str) -> str:
         return self.method_folder(method_id) + "ledger.html"
 
+    def method_source(self, method_id: str) -> str:
+        """The method file as it was built, published beside its page (and attached to its PDF)."""
+        return self.method_folder(method_id) + f"{method_id}.yaml"
+
+    def workbook(self, method_id: str) -> str:
+        """The method's tables as one spreadsheet, beside its results.json."""
+        return self.method_folder(method_id) + f"{method_id}.xlsx"
+
     def table(self, method_id: str, name: str) -> str:
         """A CSV table of a method (``name`` with its extension)."""
         return self.method_folder(method_id) + name
 
     def figure(self, method_id: str, stem: str, extension: str) -> str:
         return self.method_folder(method_id) + f"figures/{stem}.{extension}"
+
+    # ---------------------------------------------------------------- beside the dossier
+    @staticmethod
+    def signatures_folder(dossier_name: str) -> str:
+        """The folder of a dossier's signatures, beside it in the same parent folder
+        (signing changes no byte of the dossier; a rebuild does not remove them).
+
+        >>> LAYOUT.signatures_folder("output")
+        'output.signatures'
+        """
+        return f"{dossier_name}.signatures"
 
     # ---------------------------------------------------------------- shared
     def equation(self, equation_id: str) -> str:

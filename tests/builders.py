@@ -59,6 +59,7 @@ class MethodBuilder:
     id: str = "t"
     title: str = "T"
     revision: str = "1"
+    change_reason: str | None = None
     purpose: str = "P"
     limit: float = 0.02
     probability: float | None = None
@@ -99,9 +100,12 @@ class MethodBuilder:
         acceptance: dict[str, Any] = {"max_ph_error": self.limit}
         if self.probability is not None:
             acceptance["probability"] = self.probability
+        method: dict[str, Any] = {"id": self.id, "title": self.title, "revision": self.revision, "purpose": self.purpose}
+        if self.change_reason is not None:
+            method["change_reason"] = self.change_reason
         doc: dict[str, Any] = {
             "format": "ph-dossier-method/1",
-            "method": {"id": self.id, "title": self.title, "revision": self.revision, "purpose": self.purpose},
+            "method": method,
             "acceptance": acceptance,
             "conditions": conditions,
             "solutions": list(self.solutions),

@@ -26,6 +26,15 @@ class Change:
     what: str
     old: Any
     new: Any
+    unit: str | None = None
+
+    @property
+    def difference(self) -> float | None:
+        """new − old for two numbers, else None."""
+        numeric = (int, float)
+        if isinstance(self.old, numeric) and isinstance(self.new, numeric) and not isinstance(self.old, bool) and not isinstance(self.new, bool):
+            return float(self.new) - float(self.old)
+        return None
 
 
 @dataclass(frozen=True)
@@ -39,15 +48,20 @@ class MethodDiff:
     inputs: tuple[Change, ...]
     numbers: tuple[Change, ...]
     verdicts: tuple[Change, ...]
+    reason: str | None = None
+    old_reason: str | None = None
 
 
 @dataclass(frozen=True)
 class DossierDiff:
-    """Every method of either dossier, in id order."""
+    """Every method of either dossier, in id order; the previous dossier's fingerprint
+    and build time when it was read from disk."""
 
     old_label: str
     new_label: str
     methods: tuple[MethodDiff, ...]
+    old_fingerprint: str | None = None
+    old_built: str | None = None
 
     @property
     def changed(self) -> tuple[MethodDiff, ...]:
@@ -82,7 +96,7 @@ def _pairs(old: dict[str, Any], new: dict[str, Any]) -> list[Change]:
     return out
 
 
-_NOT_INPUTS = ("source_sha256", "path")
+_NOT_INPUTS = ("source_sha256", "path", "change_reason")  # the reason is shown on its own
 
 
 def _inputs(ledger: Ledger) -> dict[str, Any]:
@@ -101,8 +115,10 @@ def diff_ledgers(old: dict[str, Ledger], new: dict[str, Ledger], old_label: str 
                                       None if a is None else a.method.revision, None if b is None else b.method.revision, (), (), ()))
             continue
         inputs = _pairs(_inputs(a), _inputs(b))
-        numbers = _pairs(a.values(), b.values())
+        units = {**{e.id: e.unit for e in a.entries}, **{e.id: e.unit for e in b.entries}}
+        numbers = [Change(c.what, c.old, c.new, units.get(c.what)) for c in _pairs(a.values(), b.values())]
         verdicts = _pairs(dict(a.verdicts), dict(b.verdicts))
         status = "changed" if inputs or numbers or verdicts else "unchanged"
-        methods.append(MethodDiff(mid, status, a.method.revision, b.method.revision, tuple(inputs), tuple(numbers), tuple(verdicts)))
+        methods.append(MethodDiff(mid, status, a.method.revision, b.method.revision, tuple(inputs), tuple(numbers), tuple(verdicts),
+                                  b.method.change_reason, a.method.change_reason))
     return DossierDiff(old_label, new_label, tuple(methods))

@@ -8,13 +8,15 @@ subclass) with a message in the user's terms when a request cannot be done.
 """
 
 from ..audit.diff import DossierDiff, NotADossier, diff_dossiers
-from ..audit.verify import VerifyReport, verify
+from ..audit.verify import VerifyReport
+from .verifying import verify
 from ..analysis.method import AnalysisSettings
 from .build_dossier import BuildOptions, BuildOutcome, PreviousDossierError, analyse, build
 from .errors import OptionError, UsageError, UserError
 from .jobs import Reporter, Silent
 from .methods import CheckOutcome, check, check_method_id, schema_document, starter, substance_table, write_starter
 from .serve import preview_server
+from .signing import KeyMade, Signed, keygen, sign
 from .solve import InlineSolution, MethodPoints, solve_file, solve_inline
 
 __all__ = [
@@ -24,6 +26,10 @@ __all__ = [
     "CheckOutcome",
     "DossierDiff",
     "InlineSolution",
+    "KeyMade",
+    "Signed",
+    "keygen",
+    "sign",
     "MethodPoints",
     "NotADossier",
     "OptionError",

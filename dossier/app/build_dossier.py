@@ -19,7 +19,7 @@ import platform
 import time
 from collections.abc import Iterator, Sequence
 from contextlib import contextmanager
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from datetime import datetime, timezone
 from pathlib import Path
 from typing import Any
@@ -29,19 +29,21 @@ from ..analysis.ledger import Ledger
 from ..analysis.method import AnalysisSettings, MethodAnalysis
 from ..audit.cache import Cache, dossier_key, method_key
 from ..audit.diff import DossierDiff, NotADossier, diff_ledgers, read_ledgers
+from ..audit.signatures import check_signatures
 from ..chemistry import solver
 from ..inputs.loader import load_paths
 from ..inputs.model import Method
 from ..inputs.substances import SubstanceTable, load_table
 from ..layout import LAYOUT
-from ..problems import Problem
-from ..publish.manifest import InputRecord, MethodRecord, dependency_versions, new_manifest, portable_path
+from ..problems import Problem, has_errors
+from ..publish.manifest import InputRecord, Manifest, ManifestError, MethodRecord, dependency_versions, is_stamped, new_manifest, portable_path, stamp_text
 from ..publish.staging import PublishError, check_replaceable, output_lock, remove_stale_staging, staging_folder, swap_into_place
 from ..publish.writer import Writer
-from ..render.buildinfo import BuildInfo
+from ..render.buildinfo import STAMP_PLACEHOLDER, BuildInfo, RecordedSignature
 from ..render.context import BuildContext
 from ..render.site import render_dossier
 from .errors import UserError
+from .revisions import revision_problems
 from .jobs import MethodOutcome, Reporter, Silent, WorkerPool, expected_cost, method_job
 
 __all__ = ["BuildOptions", "BuildOutcome", "PreviousDossierError", "OutputError", "build", "analyse", "build_time", "solver_settings"]
@@ -107,6 +109,8 @@ class BuildOutcome:
     analyses : tuple of MethodAnalysis
     recomputed : tuple of str
         Ids of the methods analysed in this build (the others came from the cache).
+    fingerprint : str
+        The dossier's fingerprint (docs/manifest-format.md); empty when nothing was built.
     """
 
     ok: bool
@@ -116,6 +120,7 @@ class BuildOutcome:
     timings: dict[str, float] = field(default_factory=dict)
     analyses: tuple[MethodAnalysis, ...] = ()
     recomputed: tuple[str, ...] = ()
+    fingerprint: str = ""
 
 
 def build_time() -> str:
@@ -195,6 +200,12 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
     if not inputs.ok or not inputs.methods:
         return BuildOutcome(False, inputs.problems, out, timings=timings)
     previous = _previous_ledgers(opts.previous)
+    previous_identity = _previous_identity(opts.previous)
+    problems = inputs.problems
+    if previous is not None:
+        problems += revision_problems(inputs.methods, previous, portable_path(opts.previous or ""), strict=opts.strict)
+        if has_errors(problems):
+            return BuildOutcome(False, problems, out, timings=timings)
     check_replaceable(out)
     with output_lock(out):
         remove_stale_staging(out)
@@ -202,12 +213,14 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
         ctx = BuildContext(table, opts.settings, info, pdf=opts.pdf and opts.site, site=opts.site, figures=opts.figures or opts.site)
         store = Cache.beside(out) if opts.cache else None
         outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, opts.workers, rep, timings)
-        diff = None if previous is None else diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build")
-        files = _dossier_files(outcomes, ctx, diff, store, rep, timings)
-        written = _publish(files, inputs.methods, ctx, out, rep, timings)
+        diff = None if previous is None else replace(
+            diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build"),
+            old_fingerprint=previous_identity[0], old_built=previous_identity[1])
+        files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
+        written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings)
         if store:
             store.prune()  # what this build did not use
-    return BuildOutcome(True, inputs.problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed)
+    return BuildOutcome(True, problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed, fingerprint)
 
 
 def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
@@ -217,6 +230,17 @@ def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
         return read_ledgers(Path(previous))
     except NotADossier as exc:
         raise PreviousDossierError(f"{previous} is not a dossier built before: {exc}") from None
+
+
+def _previous_identity(previous: Path | None) -> tuple[str | None, str | None]:
+    """The previous dossier's fingerprint (None when it predates fingerprints) and build time."""
+    if previous is None:
+        return None, None
+    try:
+        m = Manifest.read(Path(previous))
+    except ManifestError:
+        return None, None
+    return (m.fingerprint() if m.recorded_fingerprint else None), m.build_time
 
 
 def _keys(methods: tuple[Method, ...], ctx: BuildContext) -> dict[str, str]:
@@ -242,22 +266,54 @@ def _method_outcomes(methods: tuple[Method, ...], ctx: BuildContext, store: Cach
     return tuple(got[m.id] for m in methods), tuple(m.id for m in todo)
 
 
-def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff: DossierDiff | None, store: Cache | None, rep: Reporter,
-                   timings: dict[str, float]) -> dict[str, bytes]:
+def _dossier_workbook(outcomes: tuple[MethodOutcome, ...]) -> bytes:
+    """One workbook for the whole dossier: the validity and sensitivity tables of every
+    method, one sheet each, with a first column naming the method (the sweeps are in each
+    method's own workbook)."""
+    import csv
+    import io
+
+    from ..render.workbooks import workbook
+
+    sheets = {}
+    for name in ("validity.csv", "sensitivity.csv"):
+        buf = io.StringIO()
+        w = csv.writer(buf, lineterminator="\n")
+        header_written = False
+        for o in outcomes:
+            mid = o.analysis.method.id
+            rows = list(csv.reader(io.StringIO(o.files[LAYOUT.table(mid, name)].decode("utf-8"))))
+            if not header_written:
+                w.writerow(["method", *rows[0]])
+                header_written = True
+            w.writerows([mid, *r] for r in rows[1:])
+        sheets[name] = buf.getvalue()
+    return workbook(sheets)
+
+
+def _recorded_signatures(out: Path) -> tuple[RecordedSignature, ...]:
+    """The signatures beside the output before this build (each signed an earlier build)."""
+    return tuple(RecordedSignature(c.statement.signer, c.statement.meaning, c.statement.signed_at, c.statement.key_id, c.statement.fingerprint, c.valid)
+                 for c in check_signatures(out, None, None) if c.statement is not None)
+
+
+def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff: DossierDiff | None, recorded: tuple[RecordedSignature, ...],
+                   store: Cache | None, rep: Reporter, timings: dict[str, float]) -> dict[str, bytes]:
     """Every file of the dossier: each method's, then the dossier-wide pages and PDF (cached too)."""
     files: dict[str, bytes] = {}
     for o in outcomes:
         files.update(o.files)
+    files[LAYOUT.dossier_workbook] = _dossier_workbook(outcomes)
     if not ctx.site:
         return files
     diff_key = None if diff is None else hashlib.sha256(repr(diff).encode()).hexdigest()
-    key = dossier_key(list(_keys(tuple(o.analysis.method for o in outcomes), ctx).values()), {"pdf": ctx.pdf, "diff": diff_key})
+    key = dossier_key(list(_keys(tuple(o.analysis.method for o in outcomes), ctx).values()), {"pdf": ctx.pdf, "diff": diff_key, "signatures": [repr(r) for r in recorded]})
     site = store.get("dossier", key, dict) if store else None
     if site is None:
         with _timed(timings, "render the dossier pages" + (" and bind the dossier PDF" if ctx.pdf else "")):
             rep.stage("rendering the dossier", 1)
             pdfs = {o.analysis.method.id: o.files[LAYOUT.method_pdf(o.analysis.method.id)] for o in outcomes} if ctx.pdf else {}
-            site = render_dossier(tuple(o.analysis for o in outcomes), pdfs, ctx, diff)
+            site = render_dossier(tuple(o.analysis for o in outcomes), pdfs, ctx, diff, recorded)
             rep.step("index, references, calculations, provenance" + (", dossier.pdf" if ctx.pdf else ""))
         if store:
             store.put("dossier", key, site)
@@ -287,24 +343,77 @@ def _inputs_record(methods: tuple[Method, ...], table: SubstanceTable) -> tuple[
     return tuple(out)
 
 
-def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext, out: Path, rep: Reporter, timings: dict[str, float]) -> dict[str, str]:
-    """Write every file into a staging folder, the manifest last, and swap it into place."""
+def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext, out: Path, rep: Reporter,
+             timings: dict[str, float]) -> tuple[dict[str, str], str]:
+    """Stamp the pages and PDFs with the fingerprint, write every file into a
+    staging folder, the manifest last, and swap it into place.
+
+    The fingerprint seals the manifest without the stamped files
+    (:meth:`~dossier.publish.manifest.Manifest.fingerprint`), so it is
+    computed from the files as rendered, then shown on every page and PDF page.
+    """
     keys = _keys(methods, ctx)
+
+    def manifest_of(outputs: dict[str, tuple[str, int]]) -> Any:
+        return new_manifest(
+            build_time=ctx.info.time,
+            python=ctx.info.python,
+            settings=solver_settings(ctx.settings, ctx.pdf),
+            inputs=_inputs_record(methods, ctx.table),
+            methods=tuple(MethodRecord(m.id, m.revision, portable_path(m.path), m.source_sha256, keys[m.id]) for m in methods),
+            outputs=outputs,
+        )
+
+    with _timed(timings, "stamp the fingerprint"):
+        sources = _method_sources(methods)
+        files = {**files, **sources}
+        sealed = manifest_of({rel: (hashlib.sha256(data).hexdigest(), len(data)) for rel, data in files.items() if not is_stamped(rel)})
+        fingerprint = sealed.fingerprint()
+        stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty), sources)
     with _timed(timings, "publish"), _as_publish_error(out):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
             writer = Writer(staging)
-            for rel in sorted(files):
-                writer.write(rel, files[rel])
-            manifest = new_manifest(
-                build_time=ctx.info.time,
-                python=ctx.info.python,
-                settings=solver_settings(ctx.settings, ctx.pdf),
-                inputs=_inputs_record(methods, ctx.table),
-                methods=tuple(MethodRecord(m.id, m.revision, portable_path(m.path), m.source_sha256, keys[m.id]) for m in methods),
-                outputs={rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written},
-            )
+            for rel in sorted(stamped):
+                writer.write(rel, stamped[rel])
+            manifest = manifest_of({rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written})
+            if manifest.fingerprint() != fingerprint:  # pragma: no cover - the sealed files are written as they are
+                raise RuntimeError("the fingerprint changed while the dossier was written")
             writer.write(LAYOUT.manifest, manifest.to_bytes())
             swap_into_place(staging, out)
         rep.step(f"published {len(writer.written)} files")
-    return dict(writer.written)
+    return dict(writer.written), fingerprint
+
+
+def _method_sources(methods: tuple[Method, ...]) -> dict[str, bytes]:
+    """Each method file as it was checked, under its dossier path (read again; it must not have changed)."""
+    out = {}
+    for m in methods:
+        try:
+            raw = Path(m.path).read_bytes()
+        except OSError as exc:
+            raise UserError(f"{m.path}: cannot read the method file again to publish it: {exc.strerror or exc}") from None
+        if hashlib.sha256(raw).hexdigest() != m.source_sha256:
+            raise UserError(f"{m.path}: the method file changed during the build; build again")
+        out[LAYOUT.method_source(m.id)] = raw
+    return out
+
+
+def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes]) -> dict[str, bytes]:
+    """Every page with its placeholder replaced by ``line``; every PDF with ``line`` at the
+    foot of each page and its method files attached (a method PDF its own, dossier.pdf all)."""
+    from ..render.binder import stamp_every_page
+
+    placeholder, text = STAMP_PLACEHOLDER.encode(), line.encode()
+    name = {rel: rel.rsplit("/", 1)[-1] for rel in sources}
+    out = {}
+    for rel, data in files.items():
+        if rel.endswith(".html"):
+            out[rel] = data.replace(placeholder, text)
+        elif rel.endswith(".pdf"):
+            mid = LAYOUT.method_of(rel)
+            own = {name[s]: sources[s] for s in sources if mid is None or LAYOUT.method_of(s) == mid}
+            out[rel] = stamp_every_page(data, line, attachments=own)
+        else:
+            out[rel] = data
+    return out

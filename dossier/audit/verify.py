@@ -4,13 +4,24 @@
    no other file is there.
 2. Every ledger entry is re-computed from the inputs the ledger records (the
    whole analysis is re-run with the recorded settings and seed) and compared.
-3. When method files are given, each hashes to what the manifest recorded.
+3. Every number shown — in results.json and the CSV tables (against the same
+   files made afresh), on the pages (each number linked to its ledger entry,
+   each row of a ledger page) and in the PDFs (each row of the ledger
+   appendix) — is the re-computed one at the precision shown.
+4. The fingerprint the manifest records is the SHA-256 of its sealed part,
+   and every page and every PDF page shows it (with the tool's version and commit).
+5. Each published method file (``methods/ID/ID.yaml``) is the one the
+   manifest records, and every PDF carries the method files attached to it.
+6. When method files are given, each hashes to what the manifest recorded.
+7. Every signature beside the dossier is the signer's and signed this
+   dossier's fingerprint and manifest (:mod:`dossier.audit.signatures`).
 
 Each mismatch is reported by file and entry.
 """
 
 from __future__ import annotations
 
+import json
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -18,13 +29,15 @@ from pathlib import Path
 
 from .. import __version__
 from ..analysis.ledger import ledger_entries
-from ..analysis.method import analyse_method
+from ..analysis.method import MethodAnalysis, analyse_method
 from ..inputs.loader import find_method_files
 from ..layout import LAYOUT
-from ..publish.manifest import Manifest, ManifestError, sha256_file
+from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
 from .diff import NotADossier, read_ledger
+from .numbers import compare_csv, compare_json, compare_workbook, ledger_lines, page_numbers, shown_matches
+from .signatures import SignatureCheck, check_signatures, manifest_sha256
 
-__all__ = ["Mismatch", "VerifyReport", "verify", "REL_TOL", "ABS_TOL"]
+__all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "REL_TOL", "ABS_TOL"]
 
 REL_TOL = 1e-9
 ABS_TOL = 1e-12
@@ -45,12 +58,15 @@ class Mismatch:
 
 @dataclass(frozen=True)
 class VerifyReport:
-    """The outcome: mismatches (empty when all matches), notes, and what was checked."""
+    """The outcome: mismatches (empty when all matches), notes, what was checked, and
+    the fingerprint re-computed from the manifest (empty when it could not be read)."""
 
     mismatches: tuple[Mismatch, ...]
     notes: tuple[str, ...]
     files_checked: int
     entries_checked: int
+    fingerprint: str = ""
+    signatures: tuple[SignatureCheck, ...] = ()
 
     @property
     def ok(self) -> bool:
@@ -63,8 +79,15 @@ def _close(a: float, b: float) -> bool:
     return math.isclose(a, b, rel_tol=REL_TOL, abs_tol=ABS_TOL)
 
 
-def verify(output: str | Path, *, methods: list[str | Path] | None = None, progress: Callable[[str], None] | None = None) -> VerifyReport:
-    """Check a built dossier against its manifest and ledgers.
+DataFiles = Callable[[MethodAnalysis, str], dict[str, bytes]]
+"""Makes a method's data files (results.json, CSV tables; {dossier path: bytes}) afresh
+from a re-computed analysis and the substance table's SHA-256 (the application layer
+passes the renderer's own function; audit does not import render)."""
+
+
+def verify(output: str | Path, *, methods: list[str | Path] | None = None, progress: Callable[[str], None] | None = None,
+           data_files: DataFiles | None = None) -> VerifyReport:
+    """Check a built dossier against its manifest and ledgers, and every number it shows.
 
     Parameters
     ----------
@@ -74,6 +97,9 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
         Method files (or folders) whose hashes must match the manifest.
     progress : callable, optional
         Called with a label before each method is re-computed.
+    data_files : callable, optional
+        Makes a method's data files afresh (:data:`DataFiles`); with it, every
+        value of results.json and of the CSV tables is compared with the re-computation.
 
     Raises
     ------
@@ -92,15 +118,76 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     notes: list[str] = []
     if manifest.tool_version != __version__:
         notes.append(f"built with ph-dossier {manifest.tool_version}, verified with {__version__}: re-computed numbers may differ for that reason")
+    texts = _PdfTexts(out)
     mm = _check_files(out, manifest)
+    mm += _check_fingerprint(out, manifest, texts)
     entries_checked = 0
+    fresh: dict[str, Fresh] = {}
     for m in manifest.methods:
-        found, checked = _check_ledger(out, m.id, progress)
+        found, checked, recomputed = _check_ledger(out, m.id, progress)
         mm += found
         entries_checked += checked
+        if recomputed is not None:
+            fresh[m.id] = recomputed
+            if data_files is not None:
+                mm += _check_data_files(out, recomputed, data_files)
+    mm += _check_shown_numbers(out, manifest, fresh, texts)
+    mm += _check_sources(out, manifest)
     if methods is not None:
         mm += _check_method_files(manifest, methods)
-    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked)
+    signed = check_signatures(out, manifest.fingerprint(), manifest_sha256(out))
+    mm += [Mismatch(s.file, "signature", s.problem) for s in signed if not s.applies]
+    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked, manifest.fingerprint(), signed)
+
+
+def check_integrity(output: str | Path) -> tuple[Manifest, list[Mismatch]]:
+    """The quick part of :func:`verify`: every file's hash and the fingerprint (no re-computation).
+
+    Raises
+    ------
+    NotADossier
+        When the folder is no dossier or its manifest cannot be read.
+    """
+    out = Path(output)
+    if not (out / LAYOUT.manifest).is_file():
+        raise NotADossier(f"not a dossier: no {LAYOUT.manifest} in {out}")
+    try:
+        manifest = Manifest.read(out)
+    except ManifestError as exc:
+        raise NotADossier(f"{out}: cannot read the manifest: {exc}") from None
+    return manifest, _check_files(out, manifest) + _check_fingerprint(out, manifest, _PdfTexts(out))
+
+
+def _check_fingerprint(out: Path, manifest: Manifest, texts: _PdfTexts | None = None) -> list[Mismatch]:
+    """The recorded fingerprint is the re-computed one, and every page and PDF page shows it."""
+    fingerprint = manifest.fingerprint()
+    if manifest.recorded_fingerprint != fingerprint:
+        return [Mismatch(LAYOUT.manifest, "fingerprint", f"recorded {manifest.recorded_fingerprint!r}, but the manifest's sealed part hashes to {fingerprint!r}")]
+    line = stamp_text(fingerprint, manifest.tool_version, manifest.git_commit, manifest.git_dirty)
+    mm: list[Mismatch] = []
+    for o in manifest.outputs:
+        p = out / o.path
+        if not p.is_file():
+            continue  # reported as missing
+        if o.path.endswith(".html"):
+            if line not in p.read_text(encoding="utf-8", errors="replace"):
+                mm.append(Mismatch(o.path, "footer", f"does not show this dossier's fingerprint line {line!r}"))
+        elif o.path.endswith(".pdf"):
+            for n, text in enumerate((texts or _PdfTexts(out)).of(o.path), start=1):
+                if line not in text:
+                    mm.append(Mismatch(o.path, f"page {n}", f"does not show this dossier's fingerprint line {line!r}"))
+    return mm
+
+
+def pdf_page_texts(path: Path) -> list[str]:
+    """The text of each page of a PDF (pypdf's extraction; an unreadable PDF gives one empty page)."""
+    from pypdf import PdfReader
+    from pypdf.errors import PdfReadError
+
+    try:
+        return [page.extract_text() or "" for page in PdfReader(path).pages]
+    except (PdfReadError, ValueError, KeyError, TypeError, OSError):
+        return [""]
 
 
 def _check_files(out: Path, manifest: Manifest) -> list[Mismatch]:
@@ -120,17 +207,28 @@ def _check_files(out: Path, manifest: Manifest) -> list[Mismatch]:
     return mm
 
 
-def _check_ledger(out: Path, method_id: str, progress: Callable[[str], None] | None) -> tuple[list[Mismatch], int]:
+@dataclass(frozen=True)
+class Fresh:
+    """One method re-computed: its analysis, every entry's value and unit."""
+
+    analysis: MethodAnalysis
+    values: dict[str, float]
+    units: dict[str, str]
+
+
+def _check_ledger(out: Path, method_id: str, progress: Callable[[str], None] | None) -> tuple[list[Mismatch], int, Fresh | None]:
     """Re-compute one method from its ledger's recorded inputs and compare every entry."""
     rel = LAYOUT.ledger(method_id)
     try:
         ledger = read_ledger(out, method_id)
     except NotADossier as exc:
-        return [Mismatch(rel, "", f"cannot read the ledger: {exc}")], 0
+        return [Mismatch(rel, "", f"cannot read the ledger: {exc}")], 0, None
     if progress:
         progress(method_id)
     recorded = ledger.values()
-    fresh = {e.id: e.value for e in ledger_entries(analyse_method(ledger.method, ledger.settings))}
+    analysis = analyse_method(ledger.method, ledger.settings)
+    entries = ledger_entries(analysis)
+    fresh = {e.id: e.value for e in entries}
     mm: list[Mismatch] = []
     for eid, value in recorded.items():
         if eid not in fresh:
@@ -139,7 +237,132 @@ def _check_ledger(out: Path, method_id: str, progress: Callable[[str], None] | N
             mm.append(Mismatch(rel, eid, f"recorded {value!r}, re-computed {fresh[eid]!r}"))
     for eid in fresh.keys() - recorded.keys():
         mm.append(Mismatch(rel, eid, "re-computed, but not recorded in the ledger"))
-    return mm, len(recorded)
+    return mm, len(recorded), Fresh(analysis, fresh, {e.id: e.unit for e in entries})
+
+
+def _check_data_files(out: Path, fresh: Fresh, data_files: DataFiles) -> list[Mismatch]:
+    """results.json and every CSV table of a method, value by value, against the same files made afresh."""
+    mid = fresh.analysis.method.id
+    results = out / LAYOUT.results(mid)
+    try:
+        published = json.loads(results.read_text(encoding="utf-8"))
+        table_sha256 = str(published.get("substance_table_sha256", ""))
+    except (OSError, ValueError, AttributeError) as exc:
+        return [Mismatch(LAYOUT.results(mid), "", f"cannot read: {exc}")]
+    mm: list[Mismatch] = []
+    for rel, data in sorted(data_files(fresh.analysis, table_sha256).items()):
+        p = out / rel
+        if not p.is_file():
+            continue  # reported as missing
+        if rel.endswith(".json"):
+            try:
+                shown = json.loads(p.read_text(encoding="utf-8"))
+            except ValueError as exc:
+                mm.append(Mismatch(rel, "", f"not JSON any more: {exc}"))
+                continue
+            diffs = compare_json(rel, shown, json.loads(data))
+        elif rel.endswith(".csv"):
+            diffs = compare_csv(rel, p.read_text(encoding="utf-8", errors="replace"), data.decode("utf-8"))
+        elif rel.endswith(".xlsx"):
+            diffs = compare_workbook(rel, p.read_bytes(), data)
+        else:
+            continue
+        mm += [Mismatch(d.file, d.place, d.message) for d in diffs]
+    return mm
+
+
+def _check_shown_numbers(out: Path, manifest: Manifest, fresh: dict[str, Fresh], texts: _PdfTexts) -> list[Mismatch]:
+    """Every number a page links to its ledger entry, every value of a ledger page, and every
+    value of the PDFs' ledger appendices, at the precision shown, against the re-computation."""
+    by_ledger_page = {LAYOUT.ledger_page(mid): f for mid, f in fresh.items()}
+    mm: list[Mismatch] = []
+    for o in manifest.outputs:
+        p = out / o.path
+        if not p.is_file():
+            continue
+        if o.path.endswith(".html"):
+            for ledger_page, eid, shown in page_numbers(o.path, p.read_text(encoding="utf-8", errors="replace")):
+                f = by_ledger_page.get(ledger_page)
+                if f is None:
+                    continue  # a method not re-computed (its ledger is reported)
+                place = f"number linked to {eid}" if ledger_page != o.path else f"ledger row {eid}"
+                if eid not in f.values:
+                    mm.append(Mismatch(o.path, place, f"shows {shown!r} for an entry the re-computation does not have"))
+                elif shown_matches(shown, f.values[eid]) is False:
+                    mm.append(Mismatch(o.path, place, f"shows {shown}, re-computed {f.values[eid]!r}"))
+        elif o.path.endswith(".pdf"):
+            mm += _check_pdf_numbers(o.path, texts.of(o.path), fresh)
+    return mm
+
+
+def _check_pdf_numbers(rel: str, pages: list[str], fresh: dict[str, Fresh]) -> list[Mismatch]:
+    """The ledger appendix of a method PDF, or of each method report bound into the dossier PDF."""
+    own = LAYOUT.method_of(rel)
+    mm: list[Mismatch] = []
+    for n, text in enumerate(pages, start=1):
+        mid = own if own is not None else next((m for m in fresh if f"{m} · revision" in text), None)
+        f = fresh.get(mid) if mid is not None else None
+        if f is None:
+            continue
+        for eid, shown in ledger_lines(text, f.units):
+            if shown_matches(shown, f.values[eid]) is False:
+                mm.append(Mismatch(rel, f"page {n}, ledger row {eid}", f"shows {shown}, re-computed {f.values[eid]!r}"))
+    return mm
+
+
+def _check_sources(out: Path, manifest: Manifest) -> list[Mismatch]:
+    """Each published method file is the one the manifest records for its method, and every
+    PDF's attachments are the published method files (a method PDF its own, dossier.pdf all)."""
+    mm: list[Mismatch] = []
+    listed = {o.path for o in manifest.outputs}
+    for m in manifest.methods:
+        rel = LAYOUT.method_source(m.id)
+        if rel not in listed:
+            continue  # a dossier built before method files were published
+        p = out / rel
+        if p.is_file() and (digest := sha256_file(p)) != m.source_sha256:
+            mm.append(Mismatch(rel, "", f"SHA-256 {digest[:16]}… is not the method file the manifest records for {m.id} ({m.source_sha256[:16]}…)"))
+    for o in manifest.outputs:
+        if not o.path.endswith(".pdf") or not (out / o.path).is_file():
+            continue
+        mid = LAYOUT.method_of(o.path)
+        expected = {LAYOUT.method_source(m.id).rsplit("/", 1)[-1]: m.source_sha256 for m in manifest.methods
+                    if (mid is None or m.id == mid) and LAYOUT.method_source(m.id) in listed}
+        found = pdf_attachments(out / o.path)
+        for name, digest in sorted(expected.items()):
+            if name not in found:
+                mm.append(Mismatch(o.path, f"attachment {name}", "missing (the method file is not attached)"))
+            elif found[name] != digest:
+                mm.append(Mismatch(o.path, f"attachment {name}", f"SHA-256 {found[name][:16]}… is not the method file the manifest records ({digest[:16]}…)"))
+        for name in sorted(found.keys() - expected.keys()):
+            mm.append(Mismatch(o.path, f"attachment {name}", "not a method file of this dossier"))
+    return mm
+
+
+def pdf_attachments(path: Path) -> dict[str, str]:
+    """{file name: SHA-256} of the files embedded in a PDF (empty when it cannot be read)."""
+    import hashlib
+
+    from pypdf import PdfReader
+    from pypdf.errors import PdfReadError
+
+    try:
+        return {name: hashlib.sha256(data[0] if isinstance(data, list) else data).hexdigest() for name, data in PdfReader(path).attachments.items()}
+    except (PdfReadError, ValueError, KeyError, TypeError, OSError):
+        return {}
+
+
+class _PdfTexts:
+    """The text of each page of each PDF of a dossier, read once per verification."""
+
+    def __init__(self, out: Path) -> None:
+        self.out = out
+        self.cache: dict[str, list[str]] = {}
+
+    def of(self, rel: str) -> list[str]:
+        if rel not in self.cache:
+            self.cache[rel] = pdf_page_texts(self.out / rel)
+        return self.cache[rel]
 
 
 def _check_method_files(manifest: Manifest, methods: list[str | Path]) -> list[Mismatch]:

@@ -667,5 +667,6 @@ def build_method(path: str, sha256: str, mf: MethodFile, doc: LoadedYaml, table:
         conditions=conditions,
         solutions=tuple(solutions),  # type: ignore[arg-type]
         references=tuple(ReferenceSpec(k, r.citation, r.kind, r.doi, r.document) for k, r in mf.references.items()),
+        change_reason=m.change_reason,
     )
     return method, ctx.problems

@@ -323,6 +323,8 @@ class Method:
         The file as the user named it.
     source_sha256 : str
         SHA-256 of the file's bytes.
+    change_reason : str or None
+        Why this revision differs from the previous one (``method.change_reason``).
     """
 
     path: str
@@ -338,6 +340,7 @@ class Method:
     conditions: ConditionsSpec
     solutions: tuple[SolutionSpec, ...]
     references: tuple[ReferenceSpec, ...]
+    change_reason: str | None = None
 
     def solution(self, solution_id: str) -> SolutionSpec:
         """The solution with this id (KeyError if none)."""

@@ -91,6 +91,12 @@ class MethodInfo(_Model):
     prepared_by: ShortText | None = Field(None, description="Who prepared the method file (name or role).")
     reviewed_by: ShortText | None = Field(None, description="Who reviewed it (name or role).")
     notes: str = Field("", max_length=20_000, description="Free notes in Markdown (raw HTML is not rendered).")
+    change_reason: Text | None = Field(
+        None,
+        description=("Why this revision differs from the previous one, in a sentence or two. When a dossier is built "
+                     "with --previous and the method's content changed, the revision must be higher and this reason "
+                     "stated (a warning otherwise; an error with --strict); the changes page shows it."),
+    )
 
     @field_validator("revision", mode="before")
     @classmethod

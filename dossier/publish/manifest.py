@@ -14,7 +14,7 @@ import json
 import os
 import re
 import subprocess
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import lru_cache
 from importlib import metadata
 from pathlib import Path
@@ -22,10 +22,29 @@ from typing import Any
 
 from .. import __version__
 
-__all__ = ["MANIFEST_FORMAT", "MANIFEST_NAME", "Manifest", "ManifestError", "InputRecord", "MethodRecord", "OutputRecord", "new_manifest", "dependency_versions", "git_commit", "portable_path", "sha256_file"]
+__all__ = ["MANIFEST_FORMAT", "MANIFEST_NAME", "STAMPED_SUFFIXES", "Manifest", "is_stamped", "stamp_text", "ManifestError", "InputRecord", "MethodRecord", "OutputRecord", "new_manifest", "dependency_versions", "git_commit", "portable_path", "sha256_file"]
 
 MANIFEST_FORMAT = "ph-dossier-manifest/1"
 MANIFEST_NAME = "manifest.json"
+
+
+STAMPED_SUFFIXES = (".html", ".pdf")
+"""Files that show the fingerprint (pages and PDFs): listed in ``outputs`` but not sealed by it."""
+
+
+def is_stamped(path: str) -> bool:
+    """True for an output that shows the fingerprint (a page or a PDF), so cannot be sealed by it."""
+    return path.endswith(STAMPED_SUFFIXES)
+
+
+def stamp_text(fingerprint: str, version: str, commit: str | None, dirty: bool | None) -> str:
+    """The line every page and PDF page shows: fingerprint, tool version and commit (ASCII only).
+
+    >>> stamp_text("ab" * 32, "1.0", "0123456789abcdef0123", False)
+    'Dossier fingerprint abababababababababababababababababababababababababababababababab - ph-dossier 1.0, commit 0123456789ab'
+    """
+    tool = f"ph-dossier {version}, " + (f"commit {commit[:12]}" + (" with local changes" if dirty else "") if commit else "no git commit")
+    return f"Dossier fingerprint {fingerprint} - {tool}"
 
 
 def sha256_file(path: Path) -> str:
@@ -139,6 +158,9 @@ class Manifest:
         Solver and analysis settings (JSON data).
     inputs, methods, outputs : tuples of records
         Outputs are every file written except the manifest, sorted by path.
+    recorded_fingerprint : str or None
+        The ``fingerprint`` a manifest file states (``verify`` compares it
+        with :meth:`fingerprint`); None for a manifest being made.
     """
 
     tool_version: str
@@ -152,9 +174,34 @@ class Manifest:
     inputs: tuple[InputRecord, ...]
     methods: tuple[MethodRecord, ...]
     outputs: tuple[OutputRecord, ...]
+    recorded_fingerprint: str | None = field(default=None, compare=False)  # as read from a file
+
+    def sealed_document(self) -> dict[str, Any]:
+        """What the fingerprint seals: the manifest without its ``fingerprint`` key and
+        without the outputs that show the fingerprint (pages and PDFs, :func:`is_stamped`)."""
+        doc = self._document()
+        doc["outputs"] = [o for o in doc["outputs"] if not is_stamped(o["path"])]
+        return doc
+
+    def fingerprint(self) -> str:
+        """The dossier's fingerprint: SHA-256 of the sealed part of the manifest.
+
+        The sealed part (:meth:`sealed_document`) is written as canonical JSON
+        (keys sorted, no spaces, UTF-8) and hashed. It holds the tool and
+        its commit, the dependencies, the build time, the settings, every
+        input and every data file (results, ledgers, tables, figures, method
+        files) with its SHA-256; the pages and PDFs show the fingerprint,
+        so they are listed in ``outputs`` (hashed after the stamp) but not sealed.
+        """
+        blob = json.dumps(self.sealed_document(), sort_keys=True, separators=(",", ":"), ensure_ascii=False).encode("utf-8")
+        return hashlib.sha256(blob).hexdigest()
 
     def to_document(self) -> dict[str, Any]:
-        """The JSON document (keys in the order of docs/manifest-format.md)."""
+        """The JSON document (keys in the order of docs/manifest-format.md), its fingerprint included."""
+        doc = self._document()
+        return {"format": doc.pop("format"), "fingerprint": self.fingerprint(), **doc}
+
+    def _document(self) -> dict[str, Any]:
         return {
             "format": MANIFEST_FORMAT,
             "tool": {"name": "ph-dossier", "version": self.tool_version, "git_commit": self.git_commit, "git_dirty": self.git_dirty},
@@ -200,6 +247,7 @@ class Manifest:
                 inputs=tuple(InputRecord(i["path"], i["sha256"], i.get("bytes"), i["role"]) for i in d["inputs"]),
                 methods=tuple(MethodRecord(m["id"], str(m["revision"]), m["source"], m["source_sha256"], m["cache_key"]) for m in d["methods"]),
                 outputs=tuple(OutputRecord(o["path"], o["sha256"], int(o["bytes"])) for o in d["outputs"]),
+                recorded_fingerprint=d.get("fingerprint"),
             )
         except (KeyError, TypeError, ValueError, AttributeError) as exc:
             raise ManifestError(f"the manifest is incomplete or malformed: {type(exc).__name__}: {exc}") from None

@@ -74,11 +74,13 @@ class Writer:
         return target
 
 
-def write_one_file(path: Path, data: bytes, *, overwrite: bool = False) -> Path:
-    """Write a single file outside a build (a starter method file, say), atomically.
+def write_one_file(path: Path, data: bytes, *, overwrite: bool = False, mode: int = 0o666) -> Path:
+    """Write a single file outside a build (a starter method file, a key, a signature), atomically.
 
     The bytes go to a temporary file beside ``path`` that then replaces it in
-    one step, so a reader never sees half a file.
+    one step, so a reader never sees half a file. ``mode`` is the permission
+    the file is created with (before the umask): ``0o600`` for a private key,
+    readable and writable by its owner only, from the first byte on.
 
     Raises
     ------
@@ -93,10 +95,13 @@ def write_one_file(path: Path, data: bytes, *, overwrite: bool = False) -> Path:
     path.parent.mkdir(parents=True, exist_ok=True)
     tmp = path.with_name(f".{path.name}.{os.getpid()}.tmp")
     try:
-        with open(tmp, "xb") as fh:
+        fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, mode)
+        with os.fdopen(fd, "wb") as fh:
             fh.write(data)
             fh.flush()
             os.fsync(fh.fileno())
+        if mode & 0o077 == 0:
+            os.chmod(tmp, mode)  # whatever the umask: owner only
         os.replace(tmp, path)
     finally:
         if tmp.exists():

@@ -18,14 +18,15 @@ method id (``ID-summary``, ``ID-L-…``), so they stay unique when merged.
 
 from __future__ import annotations
 
+import html
 import io
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 from pypdf import PdfReader, PdfWriter
-from pypdf.generic import ArrayObject, DecodedStreamObject, DictionaryObject, NameObject
+from pypdf.generic import ArrayObject, NameObject
 
-__all__ = ["BoundReport", "bind", "page_count", "LINK_PREFIX", "STAMP_FORMAT"]
+__all__ = ["BoundReport", "bind", "page_count", "stamp_every_page", "overlay_lines", "LINK_PREFIX", "STAMP_FORMAT", "FOOTER_BOTTOM"]
 
 LINK_PREFIX = "bind:"
 """Front- and back-matter links to a report (``bind:report/ID``) or the signatures (``bind:signatures``)."""
@@ -33,8 +34,10 @@ LINK_PREFIX = "bind:"
 STAMP_FORMAT = "dossier page {n} of {total}"
 """The continuous page number stamped on every page of the dossier."""
 
-_STAMP_FONT = "/PhdStampFont"
 _STAMP_X, _STAMP_Y, _STAMP_SIZE = 45.35, 24.0, 7.5  # pt: the left page margin (16 mm), inside the bottom margin
+
+FOOTER_BOTTOM = 10.0
+"""pt from the bottom edge: the fingerprint line, below the page numbers."""
 
 
 @dataclass(frozen=True)
@@ -103,42 +106,60 @@ def _resolve_links(writer: PdfWriter, pages: list[int], targets: dict[str, int])
 
 
 def _stamp(writer: PdfWriter) -> None:
-    """Add "dossier page N of T" at the foot of every page, outside the page's own drawing state.
-
-    Each page's content is wrapped in q … Q so that whatever transformation
-    it leaves in force does not move the stamp; the stamp uses the standard
-    Helvetica font (WinAnsi, ASCII text), so nothing is embedded for it.
-    ``PdfWriter._add_object`` is how pypdf adds an indirect object (stable
-    from pypdf 3 to 7; the tests cover it).
-    """
-    font = writer._add_object(DictionaryObject({
-        NameObject("/Type"): NameObject("/Font"),
-        NameObject("/Subtype"): NameObject("/Type1"),
-        NameObject("/BaseFont"): NameObject("/Helvetica"),
-        NameObject("/Encoding"): NameObject("/WinAnsiEncoding"),
-    }))
-    save, restore = DecodedStreamObject(), DecodedStreamObject()
-    save.set_data(b"q\n")
-    restore.set_data(b"\nQ\n")
-    save_ref, restore_ref = writer._add_object(save), writer._add_object(restore)
+    """Add "dossier page N of T" at the foot of every page (:func:`overlay_lines`)."""
     total = len(writer.pages)
-    for n, page in enumerate(writer.pages, start=1):
-        resources = page[NameObject("/Resources")].get_object() if "/Resources" in page else None
-        if resources is None:
-            resources = DictionaryObject()
-            page[NameObject("/Resources")] = resources
-        fonts = resources.get("/Font")
-        if fonts is None:
-            fonts = DictionaryObject()
-            resources[NameObject("/Font")] = fonts
-        fonts.get_object()[NameObject(_STAMP_FONT)] = font
-        box = page.mediabox
-        text = STAMP_FORMAT.format(n=n, total=total).encode("ascii")
-        stamp = DecodedStreamObject()
-        stamp.set_data(
-            b"q BT %s %.2f Tf 0.29 0.33 0.39 rg %.2f %.2f Td (%s) Tj ET Q\n"
-            % (_STAMP_FONT.encode(), _STAMP_SIZE, float(box.left) + _STAMP_X, float(box.bottom) + _STAMP_Y, text)
-        )
-        contents = page.get("/Contents")
-        old = [] if contents is None else (list(contents.get_object()) if isinstance(contents.get_object(), ArrayObject) else [contents])
-        page[NameObject("/Contents")] = ArrayObject([save_ref, *old, restore_ref, writer._add_object(stamp)])
+    overlay_lines(writer, [STAMP_FORMAT.format(n=n, total=total) for n in range(1, total + 1)], bottom=_STAMP_Y, size=_STAMP_SIZE)
+
+
+def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, size: float) -> None:
+    """Draw one line of text at the foot of each page of ``writer`` (``lines[i]`` on page i).
+
+    The lines are laid out by WeasyPrint as a PDF of their own, in the
+    reports' font, embedded (subset) like every other font of the reports,
+    so the stamped PDF stays archival; each page of that PDF is merged over
+    its page (pypdf wraps the page's own content in q … Q, so whatever
+    transformation it leaves in force does not move the line).
+
+    Parameters
+    ----------
+    lines : sequence of str
+        One line per page of ``writer``.
+    bottom : float
+        Distance of the line's box from the bottom edge, pt.
+    size : float
+        Font size, pt.
+    """
+    from weasyprint import HTML  # slow to import
+
+    if not writer.pages:
+        return
+    box = writer.pages[0].mediabox
+    width, height = float(box.width), float(box.height)
+    pages = "".join(f'<section><p>{html.escape(t)}</p></section>' for t in lines)
+    doc = (
+        f"<style>@page {{ size: {width:.2f}pt {height:.2f}pt; margin: 0 }} body {{ margin: 0 }}"
+        f"section {{ position: relative; height: {height - 2:.2f}pt; break-after: page; margin: 0 }}"
+        f"p {{ position: absolute; left: {_STAMP_X:.2f}pt; bottom: {bottom - 2:.2f}pt; margin: 0; font: {size:.2f}pt 'DejaVu Sans'; color: #4a5463; white-space: nowrap }}"
+        f"</style>{pages}"
+    )
+    overlay = PdfReader(io.BytesIO(HTML(string=doc).write_pdf()))
+    if len(overlay.pages) != len(lines):  # pragma: no cover - one section is one page
+        raise RuntimeError(f"the page stamps took {len(overlay.pages)} pages for {len(lines)} lines")
+    for page, over in zip(writer.pages, overlay.pages):
+        page.merge_page(over)
+
+
+def stamp_every_page(pdf: bytes, line: str, *, attachments: Mapping[str, bytes] | None = None, bottom: float = FOOTER_BOTTOM,
+                     size: float = 6.0) -> bytes:
+    """The PDF with ``line`` at the foot of every page (the dossier's fingerprint, say)
+    and ``attachments`` ({file name: bytes}, the method files) embedded as files.
+
+    Same inputs give the same bytes; document information and outline are kept.
+    """
+    writer = PdfWriter(clone_from=PdfReader(io.BytesIO(pdf)))
+    overlay_lines(writer, [line] * len(writer.pages), bottom=bottom, size=size)
+    for name, data in sorted((attachments or {}).items()):
+        writer.add_attachment(name, data)
+    out = io.BytesIO()
+    writer.write(out)
+    return out.getvalue()

@@ -4,7 +4,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["BuildInfo"]
+__all__ = ["BuildInfo", "RecordedSignature", "STAMP_PLACEHOLDER"]
+
+STAMP_PLACEHOLDER = "@@ph-dossier-stamp@@"
+"""Where a page shows the dossier's fingerprint line. Pages are rendered (and
+cached) with this placeholder; the build replaces it with the fingerprint,
+tool version and commit when it publishes (the fingerprint seals the data
+files, so it is known only once every method is done)."""
 
 
 @dataclass(frozen=True)
@@ -18,3 +24,15 @@ class BuildInfo:
     table_sha256: str
     draws: int
     seed: int
+
+
+@dataclass(frozen=True)
+class RecordedSignature:
+    """A signature found beside the output when the build started (pages list them)."""
+
+    signer: str
+    meaning: str
+    signed_at: str
+    key_id: str
+    fingerprint: str
+    valid: bool

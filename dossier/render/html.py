@@ -18,6 +18,7 @@ from .. import display
 from ..analysis.verdicts import VerdictStatus
 from ..layout import LAYOUT
 from ..inputs.units import format_concentration
+from .buildinfo import STAMP_PLACEHOLDER
 from .prose import format_percent, prose, status_words
 
 __all__ = ["environment", "render", "markdown", "templates_dir", "reference_key", "CAUTIONS", "STATUS_MARK"]
@@ -84,7 +85,9 @@ def environment() -> jinja2.Environment:
     )
     env.globals["cautions"] = CAUTIONS
     env.globals["layout"] = LAYOUT  # every path of the dossier, relative to its root
+    env.globals["LAYOUT"] = LAYOUT
     env.globals["prose"] = prose
+    env.globals["stamp"] = STAMP_PLACEHOLDER
     return env
 
 

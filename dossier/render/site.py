@@ -10,6 +10,7 @@ import json
 import mimetypes
 from dataclasses import dataclass
 from functools import lru_cache
+from collections.abc import Sequence
 from importlib import resources
 from typing import TYPE_CHECKING, Any
 
@@ -23,14 +24,14 @@ from ..inputs.substances import STATUS_MEANINGS, SubstanceTable
 from ..layout import LAYOUT
 from .equations import EXACT_MODEL, all_equations, equation_svg
 from .figures import FigureFile, method_figures
-from .buildinfo import BuildInfo
+from .buildinfo import BuildInfo, RecordedSignature
 from .context import BuildContext
 from .html import render
 
 if TYPE_CHECKING:
     from ..analysis.changes import DossierDiff
 
-__all__ = ["BuildInfo", "BuildContext", "RefView", "shared_assets", "render_method", "render_dossier", "references_for"]
+__all__ = ["BuildInfo", "BuildContext", "RefView", "shared_assets", "data_files", "render_method", "render_dossier", "references_for"]
 
 
 @dataclass(frozen=True)
@@ -167,6 +168,21 @@ def _json(document: object) -> bytes:
     return (json.dumps(document, indent=2, ensure_ascii=False) + "\n").encode()
 
 
+def data_files(a: MethodAnalysis, table_sha256: str) -> dict[str, bytes]:
+    """A method's data files: results.json, its CSV tables (headers with units) and the
+    same tables as one workbook, under their dossier paths (also what ``dossier verify``
+    compares the published ones with)."""
+    from .workbooks import with_units, workbook
+
+    mid = a.method.id
+    files: dict[str, bytes] = {LAYOUT.results(mid): _json(results_document(a, table_sha256))}
+    tables = {name: with_units(text) for name, text in csv_tables(a).items()}
+    for name, text in tables.items():
+        files[LAYOUT.table(mid, name)] = text.encode()
+    files[LAYOUT.workbook(mid)] = workbook(tables)
+    return files
+
+
 def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[str, bytes]:
     """Every file of one method under its dossier path.
 
@@ -174,9 +190,7 @@ def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[
     page and ledger page; with ``ctx.pdf`` its PDF too.
     """
     mid = a.method.id
-    files: dict[str, bytes] = {LAYOUT.results(mid): _json(results_document(a, ctx.table.sha256))}
-    for name, text in csv_tables(a).items():
-        files[LAYOUT.table(mid, name)] = text.encode()
+    files = data_files(a, ctx.table.sha256)
     figures = method_figures(a) if ctx.figures else ()
     for f in figures:
         files[LAYOUT.figure(mid, f.stem, "svg")] = f.svg
@@ -194,18 +208,22 @@ def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[
     return files
 
 
-def render_dossier(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], ctx: BuildContext, diff: DossierDiff | None = None) -> dict[str, bytes]:
+def render_dossier(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], ctx: BuildContext, diff: DossierDiff | None = None,
+                   recorded: Sequence[RecordedSignature] = ()) -> dict[str, bytes]:
     """The files about the whole dossier: shared assets, index, references,
     calculation methods, provenance, the changes since a previous build when
     ``diff`` is given, and (with ``ctx.pdf``) the dossier PDF bound from the
-    method PDFs in ``reports`` (method id → bytes)."""
-    files = {**shared_assets(), **_dossier_pages(analyses, ctx, diff)}
+    method PDFs in ``reports`` (method id → bytes). ``recorded``: the
+    signatures found beside the output before this build (listed on the
+    provenance page and the dossier's signature page as not applying to it)."""
+    files = {**shared_assets(), **_dossier_pages(analyses, ctx, diff, recorded)}
     if ctx.pdf:
-        files[LAYOUT.dossier_pdf] = _dossier_pdf(analyses, reports, ctx, files)
+        files[LAYOUT.dossier_pdf] = _dossier_pdf(analyses, reports, ctx, files, recorded, diff)
     return files
 
 
-def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], ctx: BuildContext, files: dict[str, bytes]) -> bytes:
+def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes], ctx: BuildContext, files: dict[str, bytes],
+                 recorded: Sequence[RecordedSignature], diff: DossierDiff | None = None) -> bytes:
     """The PDF of the whole dossier, bound from the method PDFs.
 
     The dossier's front matter (cover, contents, verdicts at a glance) and
@@ -223,7 +241,7 @@ def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes]
         for a, n in zip(analyses, lengths):
             starts[a.method.id] = page
             page += n
-        doc = _document(render("pdf_dossier.html", root="", build=ctx.info, analyses=analyses, starts=starts, signatures_page=page, **_common()), "", files)
+        doc = _document(render("pdf_dossier.html", root="", build=ctx.info, analyses=analyses, starts=starts, signatures_page=page, recorded=recorded, diff=diff, **_common()), "", files)
         split = next(i for i, pg in enumerate(doc.pages) if "dossier-signatures" in pg.anchors)
         if split == n_front:
             break
@@ -236,7 +254,8 @@ def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes]
                 title="pH calculation dossier", creator=f"ph-dossier {ctx.info.version}")
 
 
-def _dossier_pages(analyses: tuple[MethodAnalysis, ...], ctx: BuildContext, diff: DossierDiff | None) -> dict[str, bytes]:
+def _dossier_pages(analyses: tuple[MethodAnalysis, ...], ctx: BuildContext, diff: DossierDiff | None,
+                   recorded: Sequence[RecordedSignature]) -> dict[str, bytes]:
     """Index, references, calculation methods, provenance, and the changes page when ``diff`` is given."""
     table, build = ctx.table, ctx.info
     out: dict[str, bytes] = {}
@@ -253,5 +272,5 @@ def _dossier_pages(analyses: tuple[MethodAnalysis, ...], ctx: BuildContext, diff
         "calculations.html", root="", build=build, exact_model=EXACT_MODEL,
         activity_models=list(ACTIVITY_MODELS.values()), shortcuts=list(CATALOGUE.values()),
     ).encode()
-    out[LAYOUT.provenance] = render("provenance.html", root="", build=build, analyses=analyses).encode()
+    out[LAYOUT.provenance] = render("provenance.html", root="", build=build, analyses=analyses, recorded=recorded).encode()
     return out

@@ -122,7 +122,9 @@ def test_verify_command_exit_codes(tmp_path: Path) -> None:
     (out / "index.html").write_text("tampered", encoding="utf-8")
     bad = run("verify", str(out))
     assert bad.returncode == 1
-    assert bad.stdout.splitlines()[0].startswith("index.html: changed: SHA-256")
+    first, second = bad.stdout.splitlines()[:2]
+    assert first == f"fingerprint {json.loads((out / 'manifest.json').read_text(encoding='utf-8'))['fingerprint']}"
+    assert second.startswith("index.html: changed: SHA-256")
 
 
 def test_a_failed_write_leaves_the_previous_dossier_and_no_staging(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
@@ -198,7 +200,8 @@ def test_diff_and_the_changes_page(tmp_path: Path) -> None:
     assert any(c.what == "criteria.max_ph_error" and c.old == 0.05 and c.new == 0.3 for c in changed.inputs)
     assert any(c.what == "medium/henderson-hasselbalch" and (c.old, c.new) == ("fail", "pass") for c in changed.verdicts)
     page = (new / "changes.html").read_text(encoding="utf-8")
-    assert "tris-buffer-37c — changed (revision 3 → 4)" in page and "benzoate-extract — unchanged" in page
+    assert "tris-buffer-37c — changed (revision 3 → 4)" in page and "benzoate-extract —" not in page
+    assert "1 of 2 methods changed; the 1 unchanged one is not listed" in page
     assert 'href="changes.html"' in (new / "index.html").read_text(encoding="utf-8")
     cli = subprocess.run([sys.executable, "-m", "dossier", "diff", str(old), str(new)], capture_output=True, text=True, timeout=120)
     assert cli.returncode == 0

@@ -1,0 +1,25 @@
+"""``dossier verify``: the audit's verification, with the renderer's own data files to compare against."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from pathlib import Path
+
+from ..audit.verify import VerifyReport
+from ..audit.verify import verify as audit_verify
+from ..render.site import data_files
+
+__all__ = ["verify"]
+
+
+def verify(output: str | Path, *, methods: list[str | Path] | None = None, progress: Callable[[str], None] | None = None) -> VerifyReport:
+    """Check a built dossier: every file's hash, the fingerprint on every page, every
+    ledger entry re-computed, every number shown (data files, pages, PDFs), the method
+    files given, and every signature beside it (:func:`dossier.audit.verify.verify`).
+
+    Raises
+    ------
+    NotADossier
+        When the folder holds no manifest (it is not a dossier).
+    """
+    return audit_verify(output, methods=methods, progress=progress, data_files=data_files)
