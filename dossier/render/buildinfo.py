@@ -18,3 +18,4 @@ class BuildInfo:
     table_sha256: str
     draws: int
     seed: int
+    adaptive: bool = False
