@@ -98,3 +98,22 @@ def test_the_decision_uses_the_wilson_score_interval(count: int, n: int, low: fl
         assert _decided(count, n, low - 0.0002, z) and not _decided(count, n, low + 0.0002, z)
     assert not _decided(count, n, count / n, z)
     assert np.isfinite(z)
+
+
+def test_results_json_records_the_draws_used_and_the_tolerance_reached() -> None:
+    from dossier.analysis.method import AnalysisSettings, analyse_method
+    from dossier.render.results import results_document
+
+    m, _ = _phosphate()
+    a = analyse_method(m, AnalysisSettings(draws=40_000, map_pka=11, map_conc=11))
+    doc = results_document(a, "0" * 64)
+    assert doc["settings"]["monte_carlo_adaptive"] is True and doc["settings"]["monte_carlo_draws"] == 40_000
+    for sol, sa in zip(doc["solutions"], a.solutions, strict=True):
+        st = sol["monte_carlo_stopping"]
+        assert st["draws_used"] == sa.monte_carlo.draws == st["batches"] * st["batch_size"] <= st["draws_max"] == 40_000
+        assert set(st["tolerance"]) == {"exact", *sa.spec.shortcuts}
+        exact = st["tolerance"]["exact"]
+        assert exact["numerical_tolerance"] == _two_digits_tolerance(sa.monte_carlo.exact.u) and exact["largest_two_s"] > 0
+    fixed = analyse_method(m, AnalysisSettings(draws=40_000, map_pka=11, map_conc=11, adaptive=False))
+    st = results_document(fixed, "0" * 64)["solutions"][0]["monte_carlo_stopping"]
+    assert st["adaptive"] is False and st["draws_used"] == 40_000 and st["digits_stable"] is None
