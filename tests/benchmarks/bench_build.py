@@ -38,8 +38,16 @@ PAIRS = int(os.environ.get("BENCH_PAIRS", "3"))
 def _extract(commit: str, dest: Path) -> Path:
     """The package of ``commit`` as files in ``dest`` (no git worktree is registered)."""
     dest.mkdir(parents=True)
-    archive = subprocess.run(["git", "-C", str(ROOT), "archive", commit, "dossier"], check=True, capture_output=True).stdout
+    archive = subprocess.run(["git", "-C", str(ROOT), "archive", commit, "dossier", "templates"], check=True, capture_output=True).stdout
     subprocess.run(["tar", "-x", "-C", str(dest)], input=archive, check=True)
+    (dest / "templates").rename(dest / "dossier" / "templates")  # the package dossier.templates (pyproject's package-dir)
+    # An editable install of this checkout puts an import finder ahead of PYTHONPATH:
+    # take it out, in this process and in the worker processes it starts.
+    (dest / "sitecustomize.py").write_text(
+        "import sys\nsys.meta_path[:] = [f for f in sys.meta_path if '__editable__' not in getattr(f, '__module__', '')"
+        " and '__editable__' not in getattr(f, '__name__', '')]\n",
+        encoding="utf-8",
+    )
     return dest
 
 
@@ -52,11 +60,19 @@ def _children_cpu() -> float:
     return r.ru_utime + r.ru_stime
 
 
+def _which(code: Path) -> str:
+    """The folder the package is imported from with ``code`` on PYTHONPATH."""
+    env = dict(os.environ, PYTHONPATH=str(code))
+    return subprocess.run([sys.executable, "-c", "import dossier; print(dossier.__file__)"], env=env, capture_output=True, text=True, check=True,
+                          cwd=tempfile.gettempdir()).stdout.strip()
+
+
 def _run(code: Path, *args: str, label: str = "") -> float:
     """Wall time of one ``python -m dossier`` command [s]; its CPU time goes to :data:`CPU`."""
     env = dict(os.environ, PYTHONPATH=str(code))
     c0, t0 = _children_cpu(), time.perf_counter()
-    done = subprocess.run([sys.executable, "-m", "dossier", *args], env=env, capture_output=True, text=True)
+    # not from the checkout's folder: ``python -m`` puts the working folder first on sys.path
+    done = subprocess.run([sys.executable, "-m", "dossier", *args], env=env, capture_output=True, text=True, cwd=tempfile.gettempdir())
     seconds = time.perf_counter() - t0
     CPU.setdefault(label, []).append(_children_cpu() - c0)
     if done.returncode != 0:
@@ -103,6 +119,8 @@ def run() -> list[Row]:
     with tempfile.TemporaryDirectory() as tmp_name:
         tmp = Path(tmp_name)
         old = _extract(OLD_COMMIT, tmp / "old-code")
+        if not _which(old).startswith(str(old)):
+            raise RuntimeError(f"the old code is not the one imported: {_which(old)}")
         set_rows, set_new = _side_by_side("benchmark set (10 methods)", old, DEMO_SET, tmp, "≤ 0.3")
         rows += set_rows
         demo = tmp / "methods"
