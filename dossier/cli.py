@@ -150,7 +150,9 @@ def _add_analyse(sub: argparse._SubParsersAction) -> None:
     )
     p.add_argument("paths", nargs="*", default=["methods"], metavar="PATH", help="method files or folders (default: methods)")
     p.add_argument("-o", "--output", default="analysis", metavar="DIR", help="folder to write into (default: analysis)")
-    p.add_argument("--draws", type=_positive_int, default=None, metavar="N", help="Monte-Carlo draws per solution (default 1000000)")
+    p.add_argument("--draws", type=_positive_int, default=None, metavar="N",
+                   help="largest number of Monte-Carlo draws per solution (default 1000000); drawing stops earlier once the results are stable")
+    p.add_argument("--fixed-draws", action="store_true", help="draw exactly --draws per solution instead of stopping once the results are stable")
     p.add_argument("--seed", type=int, default=None, metavar="N", help="seed of the Monte-Carlo generator (default 20261202)")
     p.add_argument("--no-figures", action="store_true", help="write results, tables and ledgers only")
     p.add_argument("--workers", type=int, default=None, metavar="N", help="processes to use (default: one per core)")
@@ -171,7 +173,8 @@ def _settings(args: argparse.Namespace):  # noqa: ANN202 - dossier.app.AnalysisS
     from .app import AnalysisSettings
 
     defaults = AnalysisSettings()
-    return AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed)
+    return AnalysisSettings(draws=args.draws or defaults.draws, seed=defaults.seed if args.seed is None else args.seed,
+                            adaptive=not args.fixed_draws)
 
 
 def _print_problems(problems: Sequence[object]) -> None:
@@ -208,7 +211,9 @@ def _add_build(sub: argparse._SubParsersAction) -> None:
     )
     p.add_argument("paths", nargs="*", default=["methods"], metavar="PATH", help="method files or folders (default: methods)")
     p.add_argument("-o", "--output", default="output", metavar="DIR", help="folder to publish into (default: output)")
-    p.add_argument("--draws", type=_positive_int, default=None, metavar="N", help="Monte-Carlo draws per solution (default 1000000)")
+    p.add_argument("--draws", type=_positive_int, default=None, metavar="N",
+                   help="largest number of Monte-Carlo draws per solution (default 1000000); drawing stops earlier once the results are stable")
+    p.add_argument("--fixed-draws", action="store_true", help="draw exactly --draws per solution instead of stopping once the results are stable")
     p.add_argument("--seed", type=int, default=None, metavar="N", help="seed of the Monte-Carlo generator (default 20261202)")
     p.add_argument("--no-pdf", action="store_true", help="skip the PDFs")
     p.add_argument("--strict", action="store_true", help="treat warnings in method files as errors")

@@ -140,11 +140,14 @@ def ledger_entries(analysis: MethodAnalysis) -> tuple[Entry, ...]:
 
 
 def settings_to_dict(settings: AnalysisSettings) -> dict[str, Any]:
-    return {"draws": settings.draws, "seed": settings.seed, "map_pka": settings.map_pka, "map_conc": settings.map_conc}
+    return {"draws": settings.draws, "seed": settings.seed, "map_pka": settings.map_pka, "map_conc": settings.map_conc,
+            "adaptive": settings.adaptive}
 
 
 def settings_from_dict(d: dict[str, Any]) -> AnalysisSettings:
-    return AnalysisSettings(draws=int(d["draws"]), seed=int(d["seed"]), map_pka=int(d["map_pka"]), map_conc=int(d["map_conc"]))
+    # a ledger written before adaptive Monte Carlo (issue 16) drew exactly ``draws``
+    return AnalysisSettings(draws=int(d["draws"]), seed=int(d["seed"]), map_pka=int(d["map_pka"]), map_conc=int(d["map_conc"]),
+                            adaptive=bool(d.get("adaptive", False)))
 
 
 class LedgerError(ValueError):

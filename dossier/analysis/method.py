@@ -45,12 +45,17 @@ class AnalysisSettings:
         Entropy of the seed sequence; solution i of a method draws with spawn key (i,).
     map_pka, map_conc : int
         Resolution of the error maps.
+    adaptive : bool
+        Monte Carlo in batches until the results are stable and each verdict's
+        probability is decided, ``draws`` being the cap (JCGM 101 §7.9,
+        :func:`~dossier.analysis.montecarlo.monte_carlo`); False: exactly ``draws``.
     """
 
     draws: int = DEFAULT_DRAWS
     seed: int = DEFAULT_SEED
     map_pka: int = 121
     map_conc: int = 141
+    adaptive: bool = True
 
 
 @dataclass(frozen=True)
@@ -124,7 +129,8 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
     keys = {sid: key_step(sid, spec, c) for sid in claimed}
     gum_exact, gum_errors = gum(claimed, spec, c, keys)
     model = model_uncertainty(c.activity, exact.ionic_strength)
-    mc = monte_carlo(claimed, spec, c, limit, draws=settings.draws, seed=settings.seed, spawn_key=(index,), model_u=model.u)
+    mc = monte_carlo(claimed, spec, c, limit, draws=settings.draws, seed=settings.seed, spawn_key=(index,), model_u=model.u,
+                     adaptive=settings.adaptive, thresholds=(1.0 - method.criteria.probability,))
     exact_cmp = compare(gum_exact, mc.exact)
     shortcuts = []
     for sid in claimed:

@@ -19,16 +19,39 @@ coverage factor for 95 %) is validated when both of
 
 are at most δ, where [y_low, y_high] is the Monte-Carlo coverage interval.
 
+Adaptive Monte Carlo (JCGM 101 §7.9): the draws are made in batches of
+M = 10⁴ (§7.9.4: M = max(100/(1 − p), 10⁴) for p = 95 %). After h ≥ 2
+batches, for each output quantity — the exact pH and each shortcut's error —
+and each of its reported results q (the mean, the standard uncertainty u and
+the two ends of the coverage interval),
+
+.. math::
+    s_q = \sqrt{\frac{1}{h(h-1)}\sum_{r=1}^{h}\bigl(q^{(r)} - \bar q\bigr)^2}
+
+from the batch results q^(r). The results are stable when 2 s_q ≤ δ for all
+four, δ being the numerical tolerance of u written to two significant
+digits (above) with u from all h·M draws. The draws also continue until the
+probability a verdict compares with a threshold t is decided: the Wilson
+score interval of P(|error| > limit) at confidence 99 % (Bonferroni-corrected
+over the largest possible number of checks, one per batch) lies wholly on
+one side of t. Drawing stops when both hold, or at the ``draws`` cap; the
+draws used, the tolerance δ and the largest 2 s_q reached are recorded
+(:class:`Stopping`). Every batch continues the one seeded generator, so a
+run is reproducible from its seed; a fixed run is one batch of ``draws``.
+
 References
 ----------
 .. [1] JCGM 101:2008, Evaluation of measurement data — Supplement 1 to the
-   GUM — Propagation of distributions using a Monte Carlo method, §7.7, §8.
+   GUM — Propagation of distributions using a Monte Carlo method, §7.7, §7.9, §8.
+.. [2] E. B. Wilson, Probable inference, the law of succession, and
+   statistical inference, J. Am. Stat. Assoc. 22 (1927) 209–212.
 """
 
 from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from statistics import NormalDist
 
 import numpy as np
 from numpy.typing import NDArray
@@ -39,13 +62,18 @@ from .batch import inputs_of, solution_for, variation_from
 from .decision import conformity_counted
 from .sensitivity import GumResult
 
-__all__ = ["Summary", "Comparison", "McResult", "monte_carlo", "compare", "DEFAULT_DRAWS", "COVERAGE", "K95"]
+__all__ = ["Summary", "Comparison", "McResult", "Stopping", "monte_carlo", "compare", "DEFAULT_DRAWS", "COVERAGE", "K95",
+           "BATCH_DRAWS", "DECISION_CONFIDENCE"]
 
 DEFAULT_DRAWS = 1_000_000
 COVERAGE = 0.95
 K95 = 1.959963984540054
 """Coverage factor of a normal distribution for 95 % (two-sided)."""
 HIST_BINS = 80
+BATCH_DRAWS = 10_000
+"""Draws per batch of the adaptive procedure: M = max(100/(1 − p), 10⁴) (JCGM 101 §7.9.4)."""
+DECISION_CONFIDENCE = 0.99
+"""Confidence with which an adaptive run decides a probability against its threshold (over all checks)."""
 
 
 @dataclass(frozen=True)
@@ -81,6 +109,44 @@ class Comparison:
 
 
 @dataclass(frozen=True)
+class Stopping:
+    """How many draws a run used, and why it stopped (JCGM 101 §7.9).
+
+    Attributes
+    ----------
+    adaptive : bool
+        False: a fixed run of ``draws_max`` draws in one batch.
+    draws_max : int
+        The cap (``--draws``).
+    batch_size : int
+        Draws per batch M.
+    batches : int
+        Batches drawn h.
+    digits_stable : bool or None
+        2 s_q ≤ δ for every reported result of every output quantity; None
+        when not checked (a fixed run, or a single batch at the cap).
+    probabilities_decided : bool or None
+        Every probability compared with a threshold lies, with
+        ``confidence``, on one side of it (True when none is compared; None
+        when not checked).
+    confidence : float
+        Confidence of those decisions, over all checks of the run.
+    tolerance : dict
+        ``{quantity: (δ, largest 2 s_q)}`` [pH], quantity ``"exact"`` or a
+        shortcut id; both 0 for a fixed run or a single batch.
+    """
+
+    adaptive: bool
+    draws_max: int
+    batch_size: int
+    batches: int
+    digits_stable: bool | None
+    probabilities_decided: bool | None
+    confidence: float
+    tolerance: dict[str, tuple[float, float]]
+
+
+@dataclass(frozen=True)
 class McResult:
     """Monte Carlo for one solution: the exact pH and each shortcut's error.
 
@@ -103,6 +169,8 @@ class McResult:
         normal draw of the activity model's error (:mod:`dossier.analysis.decision`).
     model_u : float
         Standard uncertainty of the activity model used for those draws [pH].
+    stopping : Stopping or None
+        Draws used and the tolerance reached (None: built without the record).
     """
 
     draws: int
@@ -114,6 +182,7 @@ class McResult:
     limit: float
     p_conform: dict[str, float] = field(default_factory=dict)
     model_u: float = 0.0
+    stopping: Stopping | None = None
 
 
 def _summary(values: NDArray[np.float64]) -> Summary:
@@ -135,6 +204,9 @@ def monte_carlo(
     seed: int = 20261202,
     spawn_key: tuple[int, ...] = (),
     model_u: float = 0.0,
+    adaptive: bool = False,
+    thresholds: tuple[float, ...] = (),
+    batch: int = BATCH_DRAWS,
 ) -> McResult:
     """Propagate the input distributions through the exact pH and the shortcuts.
 
@@ -146,7 +218,7 @@ def monte_carlo(
     limit : float
         Acceptance limit on |error| [pH].
     draws : int
-        Number of Monte-Carlo trials (10⁶ by default).
+        Number of Monte-Carlo trials (10⁶ by default); with ``adaptive``, the cap.
     seed : int
         Entropy of the seed sequence (recorded in the results).
     spawn_key : tuple of int
@@ -154,26 +226,109 @@ def monte_carlo(
     model_u : float
         Standard uncertainty of the activity model [pH]; drawn (normal) after
         the inputs, so that the input draws do not depend on it.
+    adaptive : bool
+        Draw in batches until the results are stable and the probabilities
+        decided (module docstring, JCGM 101 §7.9); otherwise one batch of ``draws``.
+    thresholds : tuple of float
+        Values each P(|error| > limit) is to be decided against (adaptive only).
+    batch : int
+        Draws per batch (adaptive only).
 
     Returns
     -------
     McResult
+        ``draws`` is the number of draws used; ``stopping`` says why the run stopped.
     """
     rng = np.random.Generator(np.random.PCG64(np.random.SeedSequence(seed, spawn_key=spawn_key)))
     inputs = inputs_of(spec, conditions)
-    deltas = {inp.key: inp.draw(rng, draws) for inp in inputs}
-    sol = solution_for(spec, conditions, variation_from(inputs, deltas, conditions))
-    exact = np.broadcast_to(np.asarray(equilibrium(sol).ph, dtype=np.float64), (draws,))
+    size = min(batch, draws) if adaptive else draws
+    looks = max(1, math.ceil(draws / size) - 1)  # checks after batches 2 … h_max
+    z = NormalDist().inv_cdf(1.0 - (1.0 - DECISION_CONFIDENCE) / (2.0 * looks))
+    exact_parts: list[NDArray[np.float64]] = []
+    error_parts: dict[str, list[NDArray[np.float64]]] = {sid: [] for sid in approx_ids}
+    batch_results: dict[str, list[tuple[float, float, float, float]]] = {k: [] for k in ("exact", *approx_ids)}
+    sizes: list[int] = []
+    beyond = dict.fromkeys(approx_ids, 0)  # draws so far with |error| > limit
+    used = 0
+    stable = decided = False
+    tolerance: dict[str, tuple[float, float]] = {}
+    while used < draws:
+        n = min(size, draws - used)
+        deltas = {inp.key: inp.draw(rng, n) for inp in inputs}
+        sol = solution_for(spec, conditions, variation_from(inputs, deltas, conditions))
+        exact = np.broadcast_to(np.asarray(equilibrium(sol).ph, dtype=np.float64), (n,))
+        exact_parts.append(exact)
+        for sid in approx_ids:
+            error_parts[sid].append(np.broadcast_to(np.asarray(spec.approximation(sid).ph(sol), dtype=np.float64), (n,)) - exact)
+        used += n
+        if not adaptive:
+            break
+        sizes.append(n)
+        for sid in approx_ids:
+            beyond[sid] += int(np.count_nonzero(np.abs(error_parts[sid][-1]) > limit))
+        batch_results["exact"].append(_batch_results(exact))
+        for sid in approx_ids:
+            batch_results[sid].append(_batch_results(error_parts[sid][-1]))
+        if len(exact_parts) < 2:
+            continue
+        tolerance = {k: _stability(v, sizes) for k, v in batch_results.items()}
+        stable = all(spread <= delta for delta, spread in tolerance.values())
+        decided = all(
+            _decided(beyond[sid], used, t, z)
+            for sid in approx_ids for t in thresholds
+        )
+        if stable and decided:
+            break
+    exact = _joined(exact_parts)
     errors: dict[str, Summary] = {}
     p_exceed: dict[str, float] = {}
     for sid in approx_ids:
-        err = np.broadcast_to(np.asarray(spec.approximation(sid).ph(sol), dtype=np.float64), (draws,)) - exact
+        err = _joined(error_parts[sid])
         errors[sid] = _summary(err)
-        p_exceed[sid] = float(np.count_nonzero(np.abs(err) > limit)) / draws
+        p_exceed[sid] = float(np.count_nonzero(np.abs(err) > limit)) / used
+    draws_max = draws
+    draws = used
+    checked = adaptive and len(exact_parts) >= 2
+    stopping = Stopping(adaptive, draws_max, size, len(exact_parts), stable if checked else None,
+                        (decided or not thresholds or not approx_ids) if checked else None, DECISION_CONFIDENCE, tolerance)
+    # the activity model's error, drawn after the inputs so that the input draws do not depend on it
     model = rng.normal(0.0, model_u, draws) if model_u > 0.0 else 0.0
     nominal = solution_for(spec, conditions)
     p_conform = {sid: conformity_counted(float(spec.approximation(sid).ph(nominal)) - exact - model, limit) for sid in approx_ids}
-    return McResult(draws, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit, p_conform, model_u)
+    return McResult(draws, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit, p_conform, model_u, stopping)
+
+
+def _joined(parts: list[NDArray[np.float64]]) -> NDArray[np.float64]:
+    return parts[0] if len(parts) == 1 else np.concatenate(parts)
+
+
+def _batch_results(values: NDArray[np.float64]) -> tuple[float, float, float, float]:
+    """Mean, standard deviation and the two ends of the 95 % coverage interval of one batch."""
+    lo, hi = np.quantile(values, [(1 - COVERAGE) / 2, (1 + COVERAGE) / 2])
+    return float(values.mean()), float(values.std(ddof=1)), float(lo), float(hi)
+
+
+def _stability(results: list[tuple[float, float, float, float]], sizes: list[int]) -> tuple[float, float]:
+    """(δ, largest 2 s_q) over the batch results (JCGM 101 §7.9.4).
+
+    δ comes from u of all draws, pooled exactly from the batch means and
+    standard deviations: (N − 1) u² = Σ (n_r − 1) s_r² + Σ n_r (m_r − m̄)².
+    """
+    h = len(results)
+    arr = np.asarray(results)
+    s = np.sqrt(np.sum((arr - arr.mean(axis=0)) ** 2, axis=0) / (h * (h - 1)))
+    n = np.asarray(sizes, dtype=np.float64)
+    mean = float(np.sum(n * arr[:, 0]) / n.sum())
+    u = math.sqrt(float(np.sum((n - 1) * arr[:, 1] ** 2) + np.sum(n * (arr[:, 0] - mean) ** 2)) / (n.sum() - 1))
+    return _two_digits_tolerance(u), float(2.0 * s.max())
+
+
+def _decided(count: int, n: int, threshold: float, z: float) -> bool:
+    """Whether the Wilson score interval of count/n at normal quantile z excludes ``threshold``."""
+    p = count / n
+    centre = (p + z * z / (2 * n)) / (1 + z * z / n)
+    half = z / (1 + z * z / n) * math.sqrt(p * (1 - p) / n + z * z / (4 * n * n))
+    return centre - half > threshold or centre + half < threshold
 
 
 def _two_digits_tolerance(u: float) -> float:

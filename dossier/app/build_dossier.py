@@ -144,7 +144,7 @@ def solver_settings(settings: AnalysisSettings, pdf: bool) -> dict[str, Any]:
             "concentration_rel_tolerance": limits.VALIDITY_CONCENTRATION_REL_TOLERANCE,
             "pka_tolerance": limits.VALIDITY_PKA_TOLERANCE,
         },
-        "monte_carlo": {"draws": settings.draws, "seed": settings.seed, "generator": "numpy PCG64, SeedSequence(seed, spawn_key=(solution index,))"},
+        "monte_carlo": {"draws": settings.draws, "adaptive": settings.adaptive, "seed": settings.seed, "generator": "numpy PCG64, SeedSequence(seed, spawn_key=(solution index,))"},
         "maps": {"pka_points": settings.map_pka, "concentration_points": settings.map_conc},
         "pdf": pdf,
     }
@@ -209,7 +209,7 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
     check_replaceable(out)
     with output_lock(out):
         remove_stale_staging(out)
-        info = BuildInfo(__version__, build_time(), platform.python_version(), dependency_versions(), table.sha256, opts.settings.draws, opts.settings.seed)
+        info = BuildInfo(__version__, build_time(), platform.python_version(), dependency_versions(), table.sha256, opts.settings.draws, opts.settings.seed, opts.settings.adaptive)
         ctx = BuildContext(table, opts.settings, info, pdf=opts.pdf and opts.site, site=opts.site, figures=opts.figures or opts.site)
         store = Cache.beside(out) if opts.cache else None
         outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, opts.workers, rep, timings)

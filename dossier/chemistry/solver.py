@@ -171,8 +171,10 @@ class _Comp:
     charge: int  # of the fully protonated form
     fixed: bool = False  # open gas: ``total`` is the fixed concentration of the neutral form
 
-    def take(self, sel: NDArray[np.intp]) -> _Comp:
-        return _Comp(_take(self.total, sel), [_take(v, sel) for v in self.log_k], self.removed, self.charge, self.fixed)
+    def take(self, sel: NDArray[np.intp], *, constants: bool = True) -> _Comp:
+        """The points ``sel``; ``constants=False`` leaves ``log_k`` as is (the Newton loop uses only K')."""
+        log_k = [_take(v, sel) for v in self.log_k] if constants else self.log_k
+        return _Comp(_take(self.total, sel), log_k, self.removed, self.charge, self.fixed)
 
 
 def _take(a: NDArray[np.float64], sel: NDArray[np.intp]) -> NDArray[np.float64]:
@@ -184,7 +186,7 @@ def _fractions(k: list[NDArray[np.float64]], inv_h: NDArray[np.float64]) -> list
     d = [k[0] * inv_h]
     for kj in k[1:]:
         d.append(d[-1] * (kj * inv_h))
-    alpha0 = 1.0 / (1.0 + sum(d))
+    alpha0 = 1.0 / (1.0 + sum(d[1:], d[0]))
     return [alpha0] + [dj * alpha0 for dj in d]
 
 
@@ -263,14 +265,18 @@ def _solve_h(x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
         g, dg, _, _, _ = _balance(x, w_kw, w_k, w_c, w_ca, w_cb)
         lo = np.where(g < 0.0, x, lo)  # a non-finite G (overflow) updates neither end
         hi = np.where(g > 0.0, x, hi)
-        x_new = x - g / dg
+        step = np.divide(g, dg, out=g)
+        x_new = x - step
         # Newton's step unless it leaves the bracket (or is not finite): bisect.
         newton = (x_new >= lo) & (x_new <= hi)
-        x_new = np.where(newton, x_new, 0.5 * (lo + hi))
         # A Newton step of size d leaves an error of order d²: stop once d² is
         # below the tolerance (with a factor 100 to spare), or any step is below it.
-        step = np.abs(x_new - x)
-        done = (step <= tol) | (newton & (step <= newton_stop))
+        if newton.all():  # the usual case: no bisection, |step| is the step taken
+            done = np.abs(step, out=step) <= max(newton_stop, tol)
+        else:
+            x_new = np.where(newton, x_new, 0.5 * (lo + hi))
+            step = np.abs(x_new - x)
+            done = (step <= tol) | (newton & (step <= newton_stop))
         x = x_new
         n_done = np.count_nonzero(done)
         if n_done == done.size:
@@ -282,7 +288,7 @@ def _solve_h(x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
             pos, x, lo, hi = pos[keep], x[keep], lo[keep], hi[keep]
             w_kw, w_ca, w_cb = _take(np.asarray(w_kw), keep), _take(np.asarray(w_ca), keep), _take(np.asarray(w_cb), keep)
             w_k = [[_take(v, keep) for v in k] for k in w_k]
-            w_c = [c.take(keep) for c in w_c]
+            w_c = [c.take(keep, constants=False) for c in w_c]
     failed = np.zeros(m, dtype=bool)
     failed[pos] = True
     out[pos] = x
@@ -291,11 +297,22 @@ def _solve_h(x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
 
 def _ionic_strength(x, kw, alphas, comps, ca, cb, background):  # noqa: ANN001, ANN202
     h = np.exp(x)
-    s = h + kw / h + ca + cb
+    s = h + kw / h
+    if not (_is_zero(ca) and _is_zero(cb)):
+        s = s + (ca + cb)
     for comp, a in zip(comps, alphas):
-        z2 = sum(aj * float((comp.charge - j) ** 2) for j, aj in enumerate(a))
-        s = s + comp.total * (abs(comp.charge - comp.removed) + z2)
-    return background + 0.5 * s
+        # Σ_j α_j (z_0 − j)², leaving out the uncharged state
+        z2 = None
+        for j, aj in enumerate(a):
+            zz = (comp.charge - j) ** 2
+            if zz:
+                term = aj if zz == 1 else zz * aj
+                z2 = term if z2 is None else z2 + term
+        q = abs(comp.charge - comp.removed)
+        if z2 is None:  # a single uncharged state
+            z2 = 0.0
+        s = s + comp.total * (q + z2) if q else s + comp.total * z2
+    return background + 0.5 * s if not _is_zero(background) else 0.5 * s
 
 
 def _conditional(log_kw, comps, f):  # noqa: ANN001, ANN202

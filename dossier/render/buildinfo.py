@@ -24,6 +24,7 @@ class BuildInfo:
     table_sha256: str
     draws: int
     seed: int
+    adaptive: bool = False
 
 
 @dataclass(frozen=True)

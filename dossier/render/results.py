@@ -13,7 +13,7 @@ from typing import Any
 
 from .. import __version__
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
-from ..analysis.montecarlo import Comparison, Summary
+from ..analysis.montecarlo import Comparison, Stopping, Summary
 from ..analysis.sensitivity import GumResult
 from ..analysis.region import RegionPoint
 from ..analysis.validity import Interval, Sweep
@@ -80,6 +80,25 @@ def _gum(g: GumResult) -> dict[str, Any]:
 
 def _distribution(d: Summary) -> dict[str, Any]:
     return {"mean": d.mean, "u": d.u, "coverage_95": list(d.coverage)}
+
+
+def _stopping(st: Stopping | None, draws: int) -> dict[str, Any]:
+    """Draws used and why drawing stopped (JCGM 101 §7.9); see docs/results-format.md."""
+    if st is None:
+        return {"adaptive": False, "draws_used": draws}
+    return {
+        "adaptive": st.adaptive,
+        "draws_used": draws,
+        "draws_max": st.draws_max,
+        "batch_size": st.batch_size,
+        "batches": st.batches,
+        "digits_stable": st.digits_stable,
+        "probabilities_decided": st.probabilities_decided,
+        "decision_confidence": st.confidence,
+        "tolerance": {k: {"numerical_tolerance": d, "largest_two_s": two_s} for k, (d, two_s) in st.tolerance.items()},
+    }
+
+
 
 
 def _point(p: RegionPoint) -> dict[str, Any]:
@@ -234,6 +253,7 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
             "monte_carlo": _distribution(sa.monte_carlo.exact),
             "gum_vs_monte_carlo": _comparison(sa.comparison),
         },
+        "monte_carlo_stopping": _stopping(sa.monte_carlo.stopping, sa.monte_carlo.draws),
         "approximations": [_shortcut(sa, s, analysis.method) for s in sa.shortcuts],
         "appendix": [_shortcut(sa, s, analysis.method) for s in sa.appendix],
         "data_quality": [
@@ -317,6 +337,7 @@ def results_document(analysis: MethodAnalysis, table_sha256: str) -> dict[str, A
         "settings": {
             "solver_tolerance_ln_h": TOLERANCE,
             "monte_carlo_draws": analysis.settings.draws,
+            "monte_carlo_adaptive": analysis.settings.adaptive,
             "monte_carlo_seed": analysis.settings.seed,
             "monte_carlo_generator": "numpy PCG64, SeedSequence(seed, spawn_key=(solution index,))",
         },

@@ -1,40 +1,156 @@
-"""Build speed: a cold build of the demo dossier (HTML and PDF, 10^6 draws per
-solution), a rebuild with nothing changed, and a rebuild with one method changed."""
+"""Build speed, measured side by side (issue 16).
+
+* A cold build (``--no-cache``) of the fixed benchmark set
+  (``tests/benchmarks/demo-set``, the ten demo methods of 2026-12-03) with this
+  checkout and with the code of :data:`OLD_COMMIT`, extracted by ``git
+  archive`` into a temporary folder and run with ``PYTHONPATH``; the two are
+  run alternately, :data:`PAIRS` times, and each pair gives one ratio.
+* The whole demo dossier of the day (``methods/``), cold, new against old.
+* A one-method rebuild and ``dossier verify``, against the cold build of the
+  same run.
+
+Every build runs in its own process (``python -m dossier``), as a user runs
+it. Set ``BENCH_PAIRS`` to change the number of pairs and ``BENCH_OLD`` to
+compare against another commit.
+"""
 
 from __future__ import annotations
 
+import os
+import resource
 import shutil
+import subprocess
+import sys
 import tempfile
 import time
 from pathlib import Path
-
-from dossier.app import build
+from statistics import median
 
 from .run import Row
 
 ROOT = Path(__file__).resolve().parents[2]
+DEMO_SET = Path(__file__).parent / "demo-set"
+OLD_COMMIT = os.environ.get("BENCH_OLD", "d30262e56c6b90e77202bd927ae4be10d541fc7f")
+"""The main commit before issue 16 (2026-12-03)."""
+PAIRS = int(os.environ.get("BENCH_PAIRS", "3"))
 
 
-def _timed_build(methods: Path, out: Path):  # noqa: ANN202
-    t0 = time.perf_counter()
-    outcome = build([methods], out)
-    assert outcome.ok
-    return time.perf_counter() - t0, outcome
+def _extract(commit: str, dest: Path) -> Path:
+    """The package of ``commit`` as files in ``dest`` (no git worktree is registered)."""
+    dest.mkdir(parents=True)
+    archive = subprocess.run(["git", "-C", str(ROOT), "archive", commit, "dossier", "templates"], check=True, capture_output=True).stdout
+    subprocess.run(["tar", "-x", "-C", str(dest)], input=archive, check=True)
+    (dest / "templates").rename(dest / "dossier" / "templates")  # the package dossier.templates (pyproject's package-dir)
+    # An editable install of this checkout puts an import finder ahead of PYTHONPATH:
+    # take it out, in this process and in the worker processes it starts.
+    (dest / "sitecustomize.py").write_text(
+        "import sys\nsys.meta_path[:] = [f for f in sys.meta_path if '__editable__' not in getattr(f, '__module__', '')"
+        " and '__editable__' not in getattr(f, '__name__', '')]\n",
+        encoding="utf-8",
+    )
+    return dest
+
+
+CPU: dict[str, list[float]] = {}
+"""CPU seconds (user + system, all processes of the command) of every run, by label."""
+
+
+def _children_cpu() -> float:
+    r = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return r.ru_utime + r.ru_stime
+
+
+def _which(code: Path) -> str:
+    """The folder the package is imported from with ``code`` on PYTHONPATH."""
+    env = dict(os.environ, PYTHONPATH=str(code))
+    return subprocess.run([sys.executable, "-c", "import dossier; print(dossier.__file__)"], env=env, capture_output=True, text=True, check=True,
+                          cwd=tempfile.gettempdir()).stdout.strip()
+
+
+def _run(code: Path, *args: str, label: str = "") -> float:
+    """Wall time of one ``python -m dossier`` command [s]; its CPU time goes to :data:`CPU`."""
+    env = dict(os.environ, PYTHONPATH=str(code))
+    c0, t0 = _children_cpu(), time.perf_counter()
+    # not from the checkout's folder: ``python -m`` puts the working folder first on sys.path
+    done = subprocess.run([sys.executable, "-m", "dossier", *args], env=env, capture_output=True, text=True, cwd=tempfile.gettempdir())
+    seconds = time.perf_counter() - t0
+    CPU.setdefault(label, []).append(_children_cpu() - c0)
+    if done.returncode != 0:
+        raise RuntimeError(f"dossier {' '.join(args)} failed ({done.returncode}): {done.stdout[-2000:]}{done.stderr[-2000:]}")
+    return seconds
+
+
+def _cold(code: Path, methods: Path, out: Path, label: str) -> float:
+    shutil.rmtree(out, ignore_errors=True)
+    return _run(code, "build", str(methods), "-o", str(out), "--no-cache", "--quiet", label=label)
+
+
+def _spread(values: list[float]) -> str:
+    return f"min {min(values):.3g}, median {median(values):.3g}, max {max(values):.3g}"
+
+
+def _side_by_side(label: str, old: Path, methods: Path, tmp: Path, aim: str) -> tuple[list[Row], list[float]]:
+    new_t, old_t, ratios = [], [], []
+    for i in range(PAIRS):
+        # alternate which goes first, so a slow spell of the host hits both
+        order = [("new", ROOT), ("old", old)] if i % 2 == 0 else [("old", old), ("new", ROOT)]
+        got = {name: _cold(code, methods, tmp / f"out-{name}", f"{label}/{name}") for name, code in order}
+        new_t.append(got["new"])
+        old_t.append(got["old"])
+        ratios.append(got["new"] / got["old"])
+    rows = [
+        Row(f"{label}: cold build, this code", median(new_t), "s", _spread(new_t)),
+        Row(f"{label}: cold build, code of {OLD_COMMIT[:7]}", median(old_t), "s", _spread(old_t)),
+        Row(f"{label}: new / old, per pair", median(ratios), "×", f"{_spread(ratios)}; aim {aim}"),
+        Row(f"{label}: CPU, this code", median(CPU[f"{label}/new"]), "s", _spread(CPU[f"{label}/new"])),
+        Row(f"{label}: CPU, code of {OLD_COMMIT[:7]}", median(CPU[f"{label}/old"]), "s", _spread(CPU[f"{label}/old"])),
+        Row(f"{label}: CPU new / old, per pair", median(a / b for a, b in zip(CPU[f"{label}/new"], CPU[f"{label}/old"])), "×"),
+    ]
+    return rows, new_t
+
+
+def _same_files(a: Path, b: Path) -> bool:
+    names = sorted(p.name for p in a.glob("*.yaml"))
+    return names == sorted(p.name for p in b.glob("*.yaml")) and all((a / n).read_bytes() == (b / n).read_bytes() for n in names)
 
 
 def run() -> list[Row]:
-    with tempfile.TemporaryDirectory() as tmp:
-        methods = Path(tmp) / "methods"
-        shutil.copytree(ROOT / "methods", methods)
-        out = Path(tmp) / "output"
-        cold, outcome = _timed_build(methods, out)
-        unchanged, again = _timed_build(methods, out)
-        f = methods / "benzoate-extract.yaml"
-        f.write_text(f.read_text(encoding="utf-8").replace("max_ph_error: 0.05", "max_ph_error: 0.04"), encoding="utf-8")
-        one, changed = _timed_build(methods, out)
-    rows = [Row(f"cold build of the demo dossier ({len(outcome.analyses)} methods, HTML + PDF)", cold, "s", "aim < 30 s")]
-    rows += [Row(f"  stage: {name}", seconds, "s") for name, seconds in outcome.timings.items()]
-    rows.append(Row("  files written", len(outcome.files), "files"))
-    rows.append(Row(f"rebuild, nothing changed (recomputed: {len(again.recomputed)} methods)", unchanged, "s", "aim < 1 s"))
-    rows.append(Row(f"rebuild, one method changed (recomputed: {', '.join(changed.recomputed)})", one, "s"))
+    rows: list[Row] = []
+    with tempfile.TemporaryDirectory() as tmp_name:
+        tmp = Path(tmp_name)
+        old = _extract(OLD_COMMIT, tmp / "old-code")
+        if not _which(old).startswith(str(old)):
+            raise RuntimeError(f"the old code is not the one imported: {_which(old)}")
+        set_rows, set_new = _side_by_side("benchmark set (10 methods)", old, DEMO_SET, tmp, "≤ 0.3")
+        rows += set_rows
+        demo = tmp / "methods"
+        shutil.copytree(ROOT / "methods", demo)
+        if _same_files(ROOT / "methods", DEMO_SET):
+            rows.append(Row("demo dossier of the day: the same method files as the benchmark set", 0, "", "not built twice"))
+            cold_times = set_new
+        else:
+            demo_rows, cold_times = _side_by_side("demo dossier of the day", old, demo, tmp, "≤ 0.5")
+            rows += demo_rows
+
+        out = tmp / "out-rebuilt"
+        _run(ROOT, "build", str(demo), "-o", str(out), "--quiet", label="warm-up")  # fills the cache; not timed
+        cold = median(cold_times)
+        one, unchanged, verify = [], [], []
+        f = demo / "benzoate-extract.yaml"
+        text = f.read_text(encoding="utf-8")
+        for i in range(PAIRS):
+            unchanged.append(_run(ROOT, "build", str(demo), "-o", str(out), "--quiet", label="unchanged"))
+            limit = ("0.04", "0.05")[i % 2]
+            f.write_text(text.replace("max_ph_error: 0.05", f"max_ph_error: {limit}"), encoding="utf-8")
+            one.append(_run(ROOT, "build", str(demo), "-o", str(out), "--quiet", label="one"))
+            verify.append(_run(ROOT, "verify", str(out), label="verify"))
+        rows += [
+            Row("rebuild, nothing changed", median(unchanged), "s", _spread(unchanged)),
+            Row("rebuild, one method changed", median(one), "s", _spread(one)),
+            Row("  one-method rebuild / cold build", median(one) / cold, "×", "aim ≤ 0.15"),
+            Row("verify the demo dossier", median(verify), "s", _spread(verify)),
+            Row("  verify / cold build", median(verify) / cold, "×", "aim ≤ 0.3"),
+            Row("CPU: rebuild nothing changed, one method changed, verify", median(CPU["one"]), "s",
+                f"nothing {median(CPU['unchanged']):.3g} s, one method {median(CPU['one']):.3g} s, verify {median(CPU['verify']):.3g} s"),
+        ]
     return rows

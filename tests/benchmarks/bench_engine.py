@@ -1,5 +1,10 @@
 """Engine speed: a million points in one call, against a per-point brentq loop
-and against the floor of one numpy.power(10, x) over the same array."""
+and against the floor of one numpy.power(10, x) over the same array.
+
+The two ratios are measured in :data:`RUNS` consecutive runs in this one
+process (issue 16: ≥ 200× the brentq loop and ≤ 30× numpy.power in three
+consecutive runs); each run times the engine, the loop and the floor side by
+side."""
 
 from __future__ import annotations
 
@@ -14,6 +19,7 @@ from .run import Row, timed
 
 N_SIDE = 1000  # 1000 × 1000 = 10⁶ points
 N_BRENTQ = 20_000  # the per-point loop is timed on a subset and compared per point
+RUNS = 3
 
 
 def _grids() -> tuple[np.ndarray, np.ndarray]:
@@ -50,27 +56,33 @@ def run() -> list[Row]:
     n = pka.size
     x = -np.asarray(pka, dtype=np.float64).copy()
 
-    t_mono = timed(lambda: equilibrium(mono), repeat=5)
-    t_tri = timed(lambda: equilibrium(tri), repeat=3)
-    t_pow = timed(lambda: np.power(10.0, x), repeat=9)
-
     rng = np.random.default_rng(0)
     pick = rng.choice(n, N_BRENTQ, replace=False)
     sub_p, sub_c = pka.ravel()[pick], total.ravel()[pick]
+    rows: list[Row] = []
+    vs_loop, vs_pow = [], []
+    for k in range(1, RUNS + 1):
+        t_mono = timed(lambda: equilibrium(mono), repeat=5)
+        t_pow = timed(lambda: np.power(10.0, x), repeat=9)
+        t_loop = timed(lambda: _brentq_loop(sub_p, sub_c), repeat=1)
+        vs_loop.append((t_loop / N_BRENTQ) / (t_mono / n))
+        vs_pow.append(t_mono / t_pow)
+        rows.append(Row(f"run {k}: monoprotic ideal grid, 10^6 points", n / t_mono, "points/s", f"{t_mono:.3f} s"))
+        rows.append(Row(f"run {k}: engine / brentq loop, per point", vs_loop[-1], "× faster", "aim ≥ 200×"))
+        rows.append(Row(f"run {k}: engine / one numpy.power(10, x), 10^6", vs_pow[-1], "× the floor", "aim ≤ 30×"))
+    t_tri = timed(lambda: equilibrium(tri), repeat=3)
     t_loop = timed(lambda: _brentq_loop(sub_p, sub_c), repeat=1)
     t_vec_sub = timed(lambda: equilibrium(Solution([Component(Protolyte("mono", (sub_p,)), sub_c)])), repeat=5)
+    t_pow = timed(lambda: np.power(10.0, x), repeat=9)
 
     # the loop and the engine agree, so the comparison is like for like
     diff = np.max(np.abs(_brentq_loop(sub_p[:500], sub_c[:500]) - equilibrium(Solution([Component(Protolyte("m", (sub_p[:500],)), sub_c[:500])])).ph))
-    per_point_loop = t_loop / N_BRENTQ
-    per_point_mono = t_mono / n
-    return [
-        Row("monoprotic ideal grid, 10^6 points", n / t_mono, "points/s", f"{t_mono:.3f} s"),
+    met = sum(a >= 200.0 and b <= 30.0 for a, b in zip(vs_loop, vs_pow))
+    return rows + [
+        Row("runs meeting both aims", met, f"of {RUNS}"),
         Row("triprotic Davies grid (with temperature), 10^6 points", n / t_tri, "points/s", f"{t_tri:.3f} s"),
-        Row("per-point brentq loop (monoprotic ideal)", 1.0 / per_point_loop, "points/s", f"timed on {N_BRENTQ} points"),
-        Row("engine / brentq loop, per point (monoprotic)", per_point_loop / per_point_mono, "× faster", "aim ≥ 100×"),
+        Row("per-point brentq loop (monoprotic ideal)", N_BRENTQ / t_loop, "points/s", f"timed on {N_BRENTQ} points"),
         Row("engine on the same 2·10^4 points / brentq loop", t_loop / t_vec_sub, "× faster"),
-        Row("monoprotic grid / one numpy.power(10, x), 10^6", t_mono / t_pow, "× the floor", "aim ≤ 30×"),
         Row("triprotic Davies grid / one numpy.power(10, x)", t_tri / t_pow, "× the floor"),
         Row("max |pH(engine) − pH(brentq)| on 500 points", diff, "pH", "brentq xtol 1e-12 in log h"),
     ]
