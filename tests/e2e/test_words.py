@@ -117,9 +117,12 @@ def test_results_json_and_csv_keep_plain_numbers(built: Path) -> None:
     assert isinstance(ap["monte_carlo"]["error_coverage"][0], float)
     assert f'"error": {ap["error"]!r}' in raw  # written as a JSON number, hyphen-minus and all
     rows = list(csv.DictReader(io.StringIO((root / "sensitivity.csv").read_text(encoding="utf-8"))))
-    negative = [r["coefficient"] for r in rows if r["coefficient"].startswith("-")]
+    from dossier.render.workbooks import HEADER_UNITS  # the headers carry their units
+
+    coefficient = HEADER_UNITS["coefficient"]
+    negative = [r[coefficient] for r in rows if r[coefficient].startswith("-")]
     assert negative and all(float(v) < 0 for v in negative)
-    assert not any("−" in v for r in rows for k, v in r.items() if k in ("u", "coefficient", "contribution"))
+    assert not any("−" in v for r in rows for k, v in r.items() if k in (HEADER_UNITS[n] for n in ("u", "coefficient", "contribution")))
 
 
 def test_components_are_named_by_form_as_added_and_substance(built: Path) -> None:
