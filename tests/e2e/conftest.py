@@ -27,3 +27,11 @@ def method_ids() -> list[str]:
     import yaml
 
     return sorted(yaml.safe_load(p.read_text(encoding="utf-8"))["method"]["id"] for p in (ROOT / "methods").glob("*.yaml"))
+
+
+def statuses(built: Path) -> set[str]:
+    """The verdict statuses (results.json values) of every claimed shortcut of the built demo."""
+    import json
+
+    return {a["verdict"] for mid in method_ids() for sol in json.loads((built / "methods" / mid / "results.json").read_text(encoding="utf-8"))["solutions"]
+            for a in sol["approximations"]}
