@@ -33,6 +33,7 @@ from scipy.optimize import brentq, minimize
 from .. import limits
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import Variation, solution_for
+from .validity import runs_of
 
 __all__ = ["RegionPoint", "RegionResult", "operating_region", "CONCENTRATION_POINTS", "TEMPERATURE_POINTS", "BACKGROUND_POINTS"]
 
@@ -180,16 +181,8 @@ def operating_region(approx_id: str, spec: SolutionSpec, conditions: ConditionsS
     inside = per_c <= limit
     holds = []
     n = len(cs)
-    m = 0
-    while m < n:
-        if not inside[m]:
-            m += 1
-            continue
-        e = m
-        while e + 1 < n and inside[e + 1]:
-            e += 1
+    for m, e in runs_of(inside):
         a = cs[0] if m == 0 else 10.0 ** brentq(over_box, np.log10(cs[m - 1]), np.log10(cs[m]), xtol=_REL_TOL_LOG)
         z = cs[-1] if e == n - 1 else 10.0 ** brentq(over_box, np.log10(cs[e]), np.log10(cs[e + 1]), xtol=_REL_TOL_LOG)
         holds.append((float(a), float(z)))
-        m = e + 1
     return RegionResult((float(lo), float(hi)), t_span, b_span, worst, corners, tuple(holds), limit)

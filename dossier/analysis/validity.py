@@ -269,15 +269,8 @@ def _intervals(
     worst_part = np.max(np.abs(np.array(list(parts.values()))), axis=0) if parts else np.zeros_like(err)
     robust = worst_part <= limit
     out = []
-    i = 0
     n = len(x)
-    while i < n:
-        if not inside[i]:
-            i += 1
-            continue
-        j = i
-        while j + 1 < n and inside[j + 1]:
-            j += 1
+    for i, j in runs_of(inside):
         low_end, high_end = i == 0, j == n - 1
         low = x[0] if low_end else refine(x[i - 1], x[i], err[i - 1], err[i])
         high = x[-1] if high_end else refine(x[j], x[j + 1], err[j], err[j + 1])
@@ -289,7 +282,6 @@ def _intervals(
                 out.append(Interval(float(start_x), float(cut), bool(robust[start]), start_is_end, False))
                 start, start_x, start_is_end = k, cut, False
         out.append(Interval(float(start_x), float(high), bool(robust[start]), start_is_end, high_end))
-        i = j + 1
     return tuple(out)
 
 
@@ -303,10 +295,13 @@ def _crossing(f, a: float, b: float, fa: float, fb: float, limit: float, tol: fl
         return a if abs(fa) <= limit else b
 
 
-def _runs(x: NDArray[np.float64], inside: NDArray[np.bool_], refine) -> tuple[tuple[float, float], ...]:  # noqa: ANN001 - callable(a, b) -> crossing
-    """Runs of grid points where ``inside`` holds, as (low, high) with the ends refined between grid points."""
-    out = []
-    i, n = 0, len(x)
+def runs_of(inside: NDArray[np.bool_]) -> list[tuple[int, int]]:
+    """(first, last) grid index of every run of consecutive True values.
+
+    >>> runs_of(np.array([False, True, True, False, True]))
+    [(1, 2), (4, 4)]
+    """
+    out, i, n = [], 0, len(inside)
     while i < n:
         if not inside[i]:
             i += 1
@@ -314,11 +309,16 @@ def _runs(x: NDArray[np.float64], inside: NDArray[np.bool_], refine) -> tuple[tu
         j = i
         while j + 1 < n and inside[j + 1]:
             j += 1
-        low = float(x[0]) if i == 0 else refine(x[i - 1], x[i])
-        high = float(x[-1]) if j == n - 1 else refine(x[j], x[j + 1])
-        out.append((low, high))
+        out.append((i, j))
         i = j + 1
-    return tuple(out)
+    return out
+
+
+def _runs(x: NDArray[np.float64], inside: NDArray[np.bool_], refine) -> tuple[tuple[float, float], ...]:  # noqa: ANN001 - callable(a, b) -> crossing
+    """Runs of grid points where ``inside`` holds, as (low, high) with the ends refined between grid points."""
+    n = len(x)
+    return tuple((float(x[0]) if i == 0 else refine(x[i - 1], x[i]), float(x[-1]) if j == n - 1 else refine(x[j], x[j + 1]))
+                 for i, j in runs_of(inside))
 
 
 def _complement(allowed: tuple[tuple[float, float], ...], lo: float, hi: float) -> tuple[tuple[float, float], ...]:
