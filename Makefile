@@ -34,7 +34,7 @@ demo: system $(VENV)/.installed
 	@echo "open output/index.html in a browser, or run: $(BIN)/dossier serve output"
 
 test: system-test $(VENV)/.installed-test
-	$(BIN)/python -m pytest
+	$(BIN)/python -m pytest -n auto --dist loadgroup
 
 bench: $(VENV)/.installed-test
 	$(BIN)/python -m tests.benchmarks.run

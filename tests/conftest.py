@@ -35,6 +35,23 @@ class MissingComponent(pytest.skip.Exception):
     """The skip of a test whose system component (an executable) is missing."""
 
 
+def pytest_collection_modifyitems(config: pytest.Config, items: list[pytest.Item]) -> None:
+    """Keep shared fixtures on one worker when the tests run in parallel.
+
+    ``make test`` runs the suite on every core with pytest-xdist
+    (``-n auto --dist loadgroup``). Each test module becomes one group, so
+    its module-scoped fixtures (a built dossier, drawn figures) are made
+    once; the end-to-end tests share one session-scoped demo build and form
+    a single group. Without xdist nothing changes.
+    """
+    if not config.pluginmanager.hasplugin("xdist"):
+        return
+    for item in items:
+        parts = item.path.parts
+        group = "e2e" if "e2e" in parts else str(item.path)
+        item.add_marker(pytest.mark.xdist_group(group))
+
+
 def in_ci() -> bool:
     """Whether the tests run under CI (CI=true)."""
     return os.environ.get("CI", "").lower() in ("1", "true", "yes")
