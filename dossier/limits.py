@@ -43,6 +43,9 @@ __all__ = [
     "DRAW_TRUNCATION_SIGMAS",
     "ACTIVITY_MODEL_RANGE",
     "MODEL_RANGE_REFUSAL_FACTOR",
+    "ROBUSTNESS_COMPONENT_PERCENT",
+    "ROBUSTNESS_STRONG_ADDITION",
+    "ROBUSTNESS_TEMPERATURE_STEP",
     "describe",
 ]
 
@@ -145,6 +148,18 @@ MODEL_RANGE_REFUSAL_FACTOR = 4.0
 """`check` refuses an ionic strength more than this many times the activity
 model's range (:data:`ACTIVITY_MODEL_RANGE`); between the range and this
 factor it warns. Common practice, no source."""
+
+
+# ---------------------------------------------------------------- buffer robustness
+ROBUSTNESS_COMPONENT_PERCENT = 2.0
+"""Variation of one component on its own when the method states no tolerance
+for it [%] (the robustness table's ±x %). Common practice, no source."""
+ROBUSTNESS_STRONG_ADDITION = 1e-3
+"""Small addition of strong acid and of strong base in the robustness table
+[mol per litre of solution] (1 mmol/L). Common practice, no source."""
+ROBUSTNESS_TEMPERATURE_STEP = 1.0
+"""Half-width of the temperature step for dpH/dT when the method states no
+temperature tolerance [°C]."""
 
 
 def describe(limits: tuple[float, float], unit: str = "") -> str:

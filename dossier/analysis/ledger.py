@@ -31,6 +31,8 @@ EQUATIONS = {
     "working-range-maximum": "largest |error| over the working range, grid and bounded minimization",
     "operating-region-maximum": "largest |error| over the operating region (working range × temperature ± tolerance × background ± tolerance), grid and L-BFGS-B",
     "conformity-jcgm-106": "conformity probability P(|shortcut pH − true pH| ≤ limit), JCGM 106:2012 §7.3 (GUM closed form or Monte Carlo count)",
+    "buffer-capacity": "β = dC_b/dpH from the analytic derivative of the charge balance (Van Slyke 1922)",
+    "robustness-variation": "exact pH of the solution varied as stated minus the exact pH as stated (calculations: buffer robustness)",
 }
 """What each ``equation`` of a ledger entry means (shortcut entries name the catalogue id)."""
 
@@ -136,7 +138,38 @@ def ledger_entries(analysis: MethodAnalysis) -> tuple[Entry, ...]:
         ]
         for s in sa.shortcuts + sa.appendix:
             out += _shortcut_entries(sa, s)
+        out += _robustness_entries(sa)
     return tuple(out)
+
+
+def _robustness_entries(sa: SolutionAnalysis) -> list[Entry]:
+    """The robustness table's numbers (ids ``SOLUTION/robustness/...``)."""
+    r = sa.robustness
+    if r is None:
+        return []
+    sid = sa.spec.id
+    x = f"{sid}/robustness"
+    v = "robustness-variation"
+    out = [
+        Entry(f"{x}/buffer_capacity", r.buffer_capacity_mol_per_l_per_ph, "mol/(L·pH)", "buffer capacity β", "buffer-capacity", sid),
+        Entry(f"{x}/dilution_value", r.dilution_value, "pH", "dilution value: pH after dilution 1 + 1 with water minus pH", v, sid),
+    ]
+    for c in r.components:
+        name = sa.spec.components[c.component].added_as
+        out += [
+            Entry(f"{x}/component/{c.component}/minus", c.delta_ph_minus, "pH", f"ΔpH with {name} alone at −{c.percent:g} %", v, sid),
+            Entry(f"{x}/component/{c.component}/plus", c.delta_ph_plus, "pH", f"ΔpH with {name} alone at +{c.percent:g} %", v, sid),
+        ]
+    add = f"{r.strong_addition_mol_per_l * 1e3:g} mmol/L"
+    out += [
+        Entry(f"{x}/strong_acid", r.delta_ph_strong_acid, "pH", f"ΔpH on adding {add} of strong acid", v, sid),
+        Entry(f"{x}/strong_base", r.delta_ph_strong_base, "pH", f"ΔpH on adding {add} of strong base", v, sid),
+        Entry(f"{x}/temperature_low", r.delta_ph_temperature_low, "pH", f"ΔpH at {r.temperature_low_c:g} °C", v, sid),
+        Entry(f"{x}/temperature_high", r.delta_ph_temperature_high, "pH", f"ΔpH at {r.temperature_high_c:g} °C", v, sid),
+        Entry(f"{x}/dph_dt", r.dph_dt_per_k, "pH/K", "dpH/dT over the temperature step (central difference)", v, sid),
+        Entry(f"{x}/co2_shift", r.co2_shift_ph, "pH", "pH with CO₂ minus pH CO₂-free", v, sid),
+    ]
+    return out
 
 
 def settings_to_dict(settings: AnalysisSettings) -> dict[str, Any]:

@@ -21,6 +21,7 @@ from .aswritten import ConstantsUsed, constants_used
 from .maps import ErrorMap, PkaCurves, error_map, pka_curves
 from .decision import ModelUncertainty, model_uncertainty
 from .quality import DataQualityItem, data_quality
+from .robustness import RobustnessResult, robustness
 from .montecarlo import DEFAULT_DRAWS, Comparison, McResult, compare, monte_carlo
 from .region import operating_region
 from .sensitivity import GumResult, gum
@@ -108,6 +109,8 @@ class SolutionAnalysis:
     adjustment: AdjustmentResult | None = None
     data_quality: tuple[DataQualityItem, ...] = ()
     """Values a reviewer cannot take on trust, each with what a plausible error would do."""
+    robustness: RobustnessResult | None = None
+    """Buffer capacity, dilution value and ΔpH under small deliberate variations."""
 
 
 @dataclass(frozen=True)
@@ -163,7 +166,8 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
     quality = data_quality(method, spec, gum_exact, gum_errors, {s.id: s.error for s in shortcuts})
     co2 = co2_result(nominal, eq, c.co2_as_written, limit)
     return SolutionAnalysis(spec, exact, gum_exact, mc, exact_cmp, tuple(shortcuts), tuple(appendix), model,
-                            co2=co2, adjustment=adjustment_result(spec, c), data_quality=quality)
+                            co2=co2, adjustment=adjustment_result(spec, c), data_quality=quality,
+                            robustness=robustness(spec, c, nominal, eq, co2))
 
 
 def analyse_method(method: Method, settings: AnalysisSettings | None = None, *, progress: Callable[[str], None] | None = None) -> MethodAnalysis:

@@ -278,6 +278,43 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
             for q in sa.data_quality
         ],
         **_co2(sa),
+        **_robustness(sa),
+    }
+
+
+def _robustness(sa: SolutionAnalysis) -> dict[str, Any]:
+    """``robustness``: buffer capacity, dilution value and ΔpH under small variations (docs/results-format.md)."""
+    r = sa.robustness
+    if r is None:
+        return {}
+    return {
+        "robustness": {
+            "buffer_capacity_mol_per_l_per_ph": r.buffer_capacity_mol_per_l_per_ph,
+            "dilution_value": r.dilution_value,
+            "component_variations": [
+                {
+                    "component": v.component,
+                    "substance": sa.spec.components[v.component].substance,
+                    "percent": v.percent,
+                    "percent_source": "tolerance" if v.from_tolerance else "default",
+                    "delta_ph_minus": v.delta_ph_minus,
+                    "delta_ph_plus": v.delta_ph_plus,
+                }
+                for v in r.components
+            ],
+            "strong_addition_mol_per_l": r.strong_addition_mol_per_l,
+            "delta_ph_strong_acid": r.delta_ph_strong_acid,
+            "delta_ph_strong_base": r.delta_ph_strong_base,
+            "temperature_step_c": r.temperature_step_c,
+            "temperature_step_source": "tolerance" if r.temperature_step_from_tolerance else "default",
+            "temperature_low_c": r.temperature_low_c,
+            "temperature_high_c": r.temperature_high_c,
+            "delta_ph_temperature_low": r.delta_ph_temperature_low,
+            "delta_ph_temperature_high": r.delta_ph_temperature_high,
+            "dph_dt_per_k": r.dph_dt_per_k,
+            "co2_shift_ph": r.co2_shift_ph,
+            "co2_shift_compares": r.co2_shift_compares,
+        }
     }
 
 

@@ -24,6 +24,7 @@ from ..inputs.substances import STATUS_MEANINGS, SubstanceTable
 from ..layout import LAYOUT
 from .equations import EXACT_MODEL, all_equations, equation_svg
 from .figures import FigureFile, method_figures
+from .figure_robustness import robustness_figures
 from .buildinfo import BuildInfo, RecordedSignature
 from .context import BuildContext
 from .html import render
@@ -191,7 +192,7 @@ def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[
     """
     mid = a.method.id
     files = data_files(a, ctx.table.sha256)
-    figures = method_figures(a) if ctx.figures else ()
+    figures = method_figures(a) + robustness_figures(a) if ctx.figures else ()
     for f in figures:
         files[LAYOUT.figure(mid, f.stem, "svg")] = f.svg
         files[LAYOUT.figure(mid, f.stem, "png")] = f.png

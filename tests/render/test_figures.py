@@ -37,6 +37,7 @@ from matplotlib.transforms import Bbox
 from dossier.analysis.method import AnalysisSettings, analyse_method
 from dossier.inputs.loader import load_method
 from dossier.inputs.substances import load_table
+from dossier.render.figure_robustness import ROBUSTNESS_KIND, draw_robustness_figure
 from dossier.render.figures import FIGURE_KINDS, draw_figure, figure_bytes
 
 DEMO = sorted((Path(__file__).resolve().parents[2] / "methods").glob("*.yaml"))
@@ -75,6 +76,11 @@ def drawn(request: pytest.FixtureRequest) -> Iterator[list[Drawn]]:
                 FigureCanvasAgg(fig).draw()
                 out.append(Drawn(f"{request.param.stem}/{sa.spec.id}/{s.id}/{kind}", fig, svg))
     assert {d.name.rsplit("/", 1)[1] for d in out} == set(FIGURE_KINDS)
+    for sa in analysis.solutions:  # the robustness figure: one per solution
+        fig, _, _ = draw_robustness_figure(sa, limit)
+        svg, _ = figure_bytes(fig)
+        FigureCanvasAgg(fig).draw()
+        out.append(Drawn(f"{request.param.stem}/{sa.spec.id}/{ROBUSTNESS_KIND}", fig, svg))
     yield out
     for d in out:
         plt.close(d.fig)
