@@ -166,6 +166,7 @@ class ComponentSpec:
     def added_as(self) -> str:
         """What is weighed or measured out, for people: ``potassium dihydrogen phosphate, KH₂PO₄``.
 
+        With ``weighed_as``: the compound weighed, ``sodium acetate trihydrate, C₂H₃NaO₂·3H₂O``.
         Without a formula (a form the substance table does not list): the
         substance's name and the form in words, ``glycine, 1 proton removed``.
         """
