@@ -17,6 +17,7 @@ from ..chemistry import CATALOGUE, applicable, debye_huckel_a, equilibrium
 from ..inputs.model import Method, SolutionSpec
 from .adjustment import AdjustmentResult, adjustment_result
 from .co2 import Co2Result, co2_result
+from .preparation import Preparation, preparation
 from .aswritten import ConstantsUsed, constants_used
 from .maps import ErrorMap, PkaCurves, error_map, pka_curves
 from .decision import ModelUncertainty, model_uncertainty
@@ -111,6 +112,11 @@ class SolutionAnalysis:
     """Values a reviewer cannot take on trust, each with what a plausible error would do."""
     robustness: RobustnessResult | None = None
     """Buffer capacity, dilution value and ΔpH under small deliberate variations."""
+
+    @property
+    def preparation(self) -> Preparation:
+        """What to weigh and measure out per litre (:func:`dossier.analysis.preparation.preparation`)."""
+        return preparation(self.spec)
 
 
 @dataclass(frozen=True)

@@ -51,7 +51,7 @@ from .forms import FormError, protons_removed
 from .quality import Concern, DataFlag, Quantity, data_flags, farthest_temperature
 from .substances import STATUS_MEANINGS
 from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn
-from .substances import Substance, SubstanceTable
+from .substances import Substance, SubstanceTable, TableCompound, TableForm
 from .units import UnitError, format_concentration, parse_concentration, parse_pressure
 from .yamlpos import LoadedYaml
 
@@ -277,11 +277,16 @@ def _component(ctx: _Ctx, loc: Loc, comp: ComponentIn, refs: set[str], condition
     table_form = substance.form(removed) if (substance is not None and removed is not None) else None
     molar_mass = comp.molar_mass if comp.molar_mass is not None else (table_form.molar_mass if table_form else None)
     compound = table_form.compound if table_form else name
+    weighed = _weighed_as(ctx, loc, comp, substance, table_form, removed)
+    if weighed is False:
+        ok = False
+        weighed = None
+    mass_basis = weighed.molar_mass if isinstance(weighed, TableCompound) else molar_mass
     t = conditions.temperature
-    conc = _concentration(ctx, loc + ("concentration",), comp.concentration, molar_mass, t)
-    lo = _concentration(ctx, loc + ("working_range", 0), comp.working_range[0], molar_mass, t)
-    hi = _concentration(ctx, loc + ("working_range", 1), comp.working_range[1], molar_mass, t)
-    tol = _tolerance(ctx, loc + ("tolerance",), comp.tolerance, conc, molar_mass, t) if conc is not None else None
+    conc = _concentration(ctx, loc + ("concentration",), comp.concentration, mass_basis, t)
+    lo = _concentration(ctx, loc + ("working_range", 0), comp.working_range[0], mass_basis, t)
+    hi = _concentration(ctx, loc + ("working_range", 1), comp.working_range[1], mass_basis, t)
+    tol = _tolerance(ctx, loc + ("tolerance",), comp.tolerance, conc, mass_basis, t) if conc is not None else None
     if conc is not None and lo is not None and hi is not None:
         if lo >= hi:
             ctx.add(loc + ("working_range",), f"the working range must go from low to high; got {comp.working_range[0]!r} to {comp.working_range[1]!r}")
@@ -324,7 +329,51 @@ def _component(ctx: _Ctx, loc: Loc, comp: ComponentIn, refs: set[str], condition
         formula=table_form.formula if table_form else None,
         solubility=table_form.solubility.value if (table_form and table_form.solubility) else None,
         solubility_source=table_form.solubility.source if (table_form and table_form.solubility) else None,
+        weighed_compound=weighed.compound if isinstance(weighed, TableCompound) else None,
+        weighed_formula=weighed.formula if isinstance(weighed, TableCompound) else None,
+        weighed_molar_mass=weighed.molar_mass if isinstance(weighed, TableCompound) else None,
+        weighed_water=weighed.water if isinstance(weighed, TableCompound) else 0,
+        concentration_kind=_concentration_kind(comp.concentration, mass_basis, t),
     )
+
+
+def _concentration_kind(text: str, molar_mass: float | None, temperature: float) -> str:
+    """How a concentration that was read without problems was written: ``amount``, ``molality`` or ``mass``."""
+    try:
+        return parse_concentration(text, molar_mass=molar_mass, temperature=temperature).kind
+    except UnitError:  # pragma: no cover - the concentration was read above
+        return "amount"
+
+
+def _weighed_as(ctx: _Ctx, loc: Loc, comp: ComponentIn, substance: Substance | None, table_form: TableForm | None,
+                removed: int | None) -> TableCompound | None | bool:
+    """The compound ``weighed_as:`` names, among those the table lists for the form
+    (None when the file names none; False when it names one that cannot be used, with the problem added)."""
+    text = comp.weighed_as
+    if text is None:
+        return None
+    here = loc + ("weighed_as",)
+    if substance is None:
+        ctx.add(here, f"{comp.substance!r} is not in the substance table, which lists the compounds that may be weighed: "
+                      "leave weighed_as out and state molar_mass for the compound you weigh")
+        return False
+    if removed is None:
+        return False
+    if table_form is None:
+        ctx.add(here, f"the substance table lists no compound for {substance.name} with {removed} proton(s) removed: "
+                      "leave weighed_as out and state molar_mass for the compound you weigh")
+        return False
+    if comp.molar_mass is not None:
+        ctx.add(here, "give weighed_as or molar_mass, not both: weighed_as takes the molar mass from the table's formula")
+        return False
+    wanted = text.strip().casefold().replace(".", "·")
+    for c in table_form.weighable:
+        if wanted in (c.compound.casefold(), c.formula.casefold()):
+            return c
+    names = [c.compound for c in table_form.weighable]
+    ctx.add(here, f"{text!r} is not a compound the substance table lists for {substance.name}, {table_form.compound}"
+                  f"{did_you_mean(text, names)}; choose one of: {'; '.join(f'{c.compound} ({c.formula})' for c in table_form.weighable)}")
+    return False
 
 
 def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> SolutionSpec | None:
@@ -356,7 +405,12 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
     claims = _claims(ctx, loc, sol.shortcuts, comps[0])  # type: ignore[arg-type]
     if claims is None:
         return None
-    spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(ids)), as_written=claims)  # type: ignore[arg-type]
+    acid_stock = _stock(ctx, loc, "strong_acid", sol.strong_acid_stock, acid, t)
+    base_stock = _stock(ctx, loc, "strong_base", sol.strong_base_stock, base, t)
+    if acid_stock is False or base_stock is False:
+        return None
+    spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(ids)), as_written=claims,  # type: ignore[arg-type]
+                        strong_acid_stock=acid_stock, strong_base_stock=base_stock)  # type: ignore[arg-type]
     try:
         engine_solution = spec.to_solution(conditions)
     except InputRangeError as exc:
@@ -494,6 +548,24 @@ def _within_model_range(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: Con
                      f"the working range goes to {format_concentration(top)}, above the solubility of {comp.compound} in water at 25 °C "
                      f"({format_concentration(comp.solubility)}, source {comp.solubility_source!r}): shortcuts are judged only up to the solubility")
     return ok
+
+
+def _stock(ctx: _Ctx, loc: Loc, key: str, text: str | None, amount: float, temperature: float) -> float | None | bool:
+    """The stock a stated strong acid or base is measured from [mol/L]: None when not stated
+    (or stated without the acid or base, with a warning); False when it cannot be used (problem added)."""
+    if text is None:
+        return None
+    here = loc + (f"{key}_stock",)
+    if amount == 0.0:
+        ctx.warn(here, f"ignored: the solution states no {key}")
+        return None
+    stock = _concentration(ctx, here, text, None, temperature)
+    if stock is None:
+        return False
+    if amount > stock:
+        ctx.add(here, f"the {key.replace('_', ' ')} stated ({format_concentration(amount)}) is more than the stock itself ({text}): no volume of it can deliver that")
+        return False
+    return stock
 
 
 def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution: Solution, conditions: ConditionsSpec) -> SolutionSpec | None:

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import re
 
-__all__ = ["ATOMIC_WEIGHTS", "FormulaError", "molar_mass", "subscripted"]
+__all__ = ["ATOMIC_WEIGHTS", "FormulaError", "molar_mass", "subscripted", "water_of_crystallisation"]
 
 ATOMIC_WEIGHTS: dict[str, float] = {
     "H": 1.008,
@@ -97,6 +97,37 @@ def molar_mass(formula: str) -> float:
             raise FormulaError(f"empty part in formula {formula!r}")
         total += count * _parse(body)
     return round(total, 3)
+
+
+def water_of_crystallisation(formula: str) -> int:
+    """Molecules of water of crystallisation a formula carries: the ``nH2O`` adducts.
+
+    Parameters
+    ----------
+    formula : str
+        E.g. ``"Na2HPO4·12H2O"``.
+
+    Returns
+    -------
+    int
+        The count of the water adducts after a middle dot or period (0 for an
+        anhydrous formula; ``·H2O`` counts 1).
+
+    Examples
+    --------
+    >>> water_of_crystallisation("Na2HPO4·12H2O")
+    12
+    >>> water_of_crystallisation("C6H8O7·H2O")
+    1
+    >>> water_of_crystallisation("KH2PO4")
+    0
+    """
+    total = 0
+    for part in re.split(r"[·.]", formula.replace(" ", ""))[1:]:
+        m = re.fullmatch(r"(\d*)H2O", part)
+        if m:
+            total += int(m.group(1)) if m.group(1) else 1
+    return total
 
 
 def subscripted(formula: str) -> str:

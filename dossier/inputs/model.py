@@ -111,6 +111,14 @@ class ComponentSpec:
     None for a form the table does not list). ``solubility`` is that form's
     solubility in water at 25 °C [mol/L] when the substance table gives one
     (``solubility_source`` its source key), else None.
+
+    ``weighed_compound``, ``weighed_formula``, ``weighed_molar_mass`` [g/mol]
+    and ``weighed_water`` (molecules of water of crystallisation) name the
+    compound the method says is weighed (``weighed_as:``, a hydrate or
+    another salt of the same form), None (0) when it says none: then the
+    form's own compound is weighed. ``concentration_kind`` says how the
+    concentration was written: ``amount`` (mol/L), ``molality`` (mol/kg) or
+    ``mass`` (g/L, mg/L, % w/v: a mass of the weighed compound).
     """
 
     substance: str
@@ -131,6 +139,19 @@ class ComponentSpec:
     formula: str | None = None
     solubility: float | None = None
     solubility_source: str | None = None
+    weighed_compound: str | None = None
+    weighed_formula: str | None = None
+    weighed_molar_mass: float | None = None
+    weighed_water: int = 0
+    concentration_kind: str = "amount"
+
+    @property
+    def mass_basis(self) -> tuple[str, str | None, float | None]:
+        """What is weighed: (compound, formula, molar mass [g/mol]); the formula
+        and molar mass are None where neither the table nor the file gives them."""
+        if self.weighed_compound is not None:
+            return self.weighed_compound, self.weighed_formula, self.weighed_molar_mass
+        return self.compound, self.formula, self.molar_mass
 
     @property
     def form_words(self) -> str:
@@ -145,9 +166,12 @@ class ComponentSpec:
     def added_as(self) -> str:
         """What is weighed or measured out, for people: ``potassium dihydrogen phosphate, KH₂PO₄``.
 
+        With ``weighed_as``: the compound weighed, ``sodium acetate trihydrate, C₂H₃NaO₂·3H₂O``.
         Without a formula (a form the substance table does not list): the
         substance's name and the form in words, ``glycine, 1 proton removed``.
         """
+        if self.weighed_compound is not None and self.weighed_formula:
+            return f"{self.weighed_compound}, {subscripted(self.weighed_formula)}"
         if self.formula:
             return f"{self.compound}, {subscripted(self.formula)}"
         return f"{self.name}, {self.form_words}"
@@ -262,6 +286,10 @@ class SolutionSpec:
     shortcuts: tuple[str, ...]
     adjustment: AdjustmentSpec | None = None
     as_written: tuple[ClaimedShortcut, ...] = ()
+    strong_acid_stock: float | None = None
+    """Stock the stated strong acid is measured from [mol/L] (``strong_acid_stock:``), None when not stated."""
+    strong_base_stock: float | None = None
+    """Stock the stated strong base is measured from [mol/L] (``strong_base_stock:``), None when not stated."""
 
     @property
     def claims(self) -> tuple[ClaimedShortcut, ...]:

@@ -227,6 +227,12 @@ class ComponentIn(_Model):
         description="Molar mass of the form as added, for mass units (default: from the table's formula for that form).",
     )
     charge: int | None = Field(None, ge=limits.CHARGE[0], le=limits.CHARGE[1], description="Charge of the fully protonated form (0 acetic acid, +1 ammonium). Taken from the table for table substances.")
+    weighed_as: ShortText | None = Field(
+        None,
+        description=("The compound weighed for this form, by its name or formula in the substance table (`dossier substances`): "
+                     "the form's own compound or one it is sold as, e.g. a hydrate ('sodium acetate trihydrate', 'Na2HPO4·12H2O'). "
+                     "Its molar mass converts a mass concentration and gives the mass per litre of the preparation table."),
+    )
     pka: list[PkaIn] = Field(min_length=1, max_length=limits.MAX_STEPS, description="One entry per ionization step, in order.")
 
     @field_validator("form", mode="before")
@@ -293,6 +299,12 @@ class SolutionIn(_Model):
     adjusted_to: AdjustedTo | None = Field(
         None,
         description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",
+    )
+    strong_acid_stock: ConcentrationText | None = Field(
+        None, description="Concentration of the stock the strong acid is measured from, with unit: the preparation table gives its volume per litre.",
+    )
+    strong_base_stock: ConcentrationText | None = Field(
+        None, description="Concentration of the stock the strong base is measured from, with unit: the preparation table gives its volume per litre.",
     )
 
 

@@ -18,9 +18,9 @@ from importlib import resources
 
 import yaml
 
-from .formulas import molar_mass
+from .formulas import molar_mass, water_of_crystallisation
 
-__all__ = ["TableValue", "TableStep", "TableForm", "TableSource", "Substance", "SubstanceTable", "load_table", "STATUSES", "SOURCE_KINDS",
+__all__ = ["TableValue", "TableStep", "TableCompound", "TableForm", "TableSource", "Substance", "SubstanceTable", "load_table", "STATUSES", "SOURCE_KINDS",
            "TABLE_SOURCE_KINDS", "STATUS_MEANINGS"]
 
 STATUSES = ("confirmed", "derived", "computed", "unverified", "recalled")
@@ -72,11 +72,27 @@ class TableStep:
 
 
 @dataclass(frozen=True)
+class TableCompound:
+    """A compound that may be weighed to deliver a form: name, formula, molar mass [g/mol].
+
+    ``water`` is the number of water molecules of crystallisation the formula
+    carries (3 for ``C2H3NaO2·3H2O``; 0 for an anhydrous compound).
+    """
+
+    compound: str
+    formula: str
+    molar_mass: float
+    water: int = 0
+
+
+@dataclass(frozen=True)
 class TableForm:
     """A compound in which the substance is added: protons removed, name, formula, molar mass [g/mol].
 
     ``solubility`` is the compound's solubility in water at 25 °C [mol/L]
     with its source and status, where the table gives one (None otherwise).
+    ``sold_as`` lists the other compounds that deliver the same form and may
+    be weighed instead (hydrates, or a salt of another alkali cation).
     """
 
     removed: int
@@ -84,6 +100,13 @@ class TableForm:
     formula: str
     molar_mass: float
     solubility: TableValue | None = None
+    sold_as: tuple[TableCompound, ...] = ()
+
+    @property
+    def weighable(self) -> tuple[TableCompound, ...]:
+        """Every compound that may be weighed for this form: the form's own compound first, then ``sold_as``."""
+        own = TableCompound(self.compound, self.formula, self.molar_mass, water_of_crystallisation(self.formula))
+        return (own,) + self.sold_as
 
 
 @dataclass(frozen=True)
@@ -154,6 +177,8 @@ def load_table() -> SubstanceTable:
     136.084
     >>> t.get("benzoic-acid").form(0).solubility.value  # mol/L at 25 °C
     0.0278
+    >>> t.get("acetic-acid").form(1).sold_as[0]
+    TableCompound(compound='sodium acetate trihydrate', formula='C2H3NaO2·3H2O', molar_mass=136.08, water=3)
     """
     raw = resources.files("dossier").joinpath("data/substances.yaml").read_bytes()
     data = yaml.safe_load(raw)
@@ -170,7 +195,12 @@ def load_table() -> SubstanceTable:
             TableStep(_value(st, "pka"), _value(st, "enthalpy"), _value(st, "heat_capacity"))  # type: ignore[arg-type]
             for st in s["steps"]
         )
-        forms = tuple(TableForm(f["removed"], f["compound"], f["formula"], molar_mass(f["formula"]), _value(f, "solubility")) for f in s["forms"])
+        forms = tuple(
+            TableForm(f["removed"], f["compound"], f["formula"], molar_mass(f["formula"]), _value(f, "solubility"),
+                      tuple(TableCompound(c["compound"], c["formula"], molar_mass(c["formula"]), water_of_crystallisation(c["formula"]))
+                            for c in f.get("sold_as", ())))
+            for f in s["forms"]
+        )
         for st in steps:
             for v in (st.pka, st.enthalpy, st.heat_capacity):
                 if v is not None and (v.source not in sources or v.status not in STATUSES):

@@ -17,6 +17,7 @@ from markupsafe import Markup
 from .. import display
 from ..analysis.verdicts import VerdictStatus
 from ..layout import LAYOUT
+from ..inputs.formulas import subscripted
 from ..inputs.units import format_concentration
 from .buildinfo import STAMP_PLACEHOLDER
 from .prose import format_percent, prose, status_words
@@ -81,6 +82,7 @@ def environment() -> jinja2.Environment:
             "mark": lambda status: STATUS_MARK.get(status, "?"),
             "words": status_words,
             "refkey": reference_key,
+            "formula": subscripted,
         }
     )
     env.globals["cautions"] = CAUTIONS

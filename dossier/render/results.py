@@ -14,6 +14,7 @@ from typing import Any
 from .. import __version__
 from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
 from ..analysis.montecarlo import Comparison, Stopping, Summary
+from ..analysis.preparation import Preparation
 from ..analysis.sensitivity import GumResult
 from ..analysis.region import RegionPoint
 from ..analysis.validity import Interval, Sweep
@@ -336,6 +337,7 @@ def _co2(sa: SolutionAnalysis) -> dict[str, Any]:
         },
         "co2_open_to_air": air,
         **_adjustment(sa),
+        "preparation": _preparation(sa.preparation),
     }
 
 
@@ -356,6 +358,38 @@ def _adjustment(sa: SolutionAnalysis) -> dict[str, Any]:
             "shortcut_recipe_ph": r.shortcut_recipe_ph,
         },
         "adjustment_stock": stock,
+    }
+
+
+def _preparation(p: Preparation) -> dict[str, Any]:
+    """``preparation``: the mass of each component and the volume of each titrant per litre (docs/results-format.md)."""
+    return {
+        "components": [
+            {
+                "component": w.index,
+                "substance": w.substance,
+                "compound": w.compound,
+                "formula": w.formula,
+                "water_of_crystallisation": w.water,
+                "molar_mass_g_per_mol": w.molar_mass_g_per_mol,
+                "amount_mol_per_l": w.amount_mol_per_l,
+                "mass_g_per_l": w.mass_g_per_l,
+                "mass_stated": w.stated_mass,
+                "as_written": w.as_written,
+            }
+            for w in p.components
+        ],
+        "titrants": [
+            {
+                "role": t.role,
+                "titrant": t.titrant,
+                "amount_mol_per_l": t.amount_mol_per_l,
+                "stock_mol_per_l": t.stock_mol_per_l,
+                "volume_ml_per_l": t.volume_ml_per_l,
+                "target_ph": t.target_ph,
+            }
+            for t in p.titrants
+        ],
     }
 
 

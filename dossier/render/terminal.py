@@ -81,7 +81,7 @@ def print_json(data: Any, console: Console | None = None) -> None:
 
 
 def substances_tables(table: SubstanceTable) -> list[Table]:
-    """The substance table for people: values, then sources."""
+    """The substance table for people: values, the forms with the compounds they may be weighed as, then sources."""
     values = Table(title="Substance table (pKa at 25 °C and I = 0; ΔH° in kJ/mol, ΔCp° in J/(K·mol))", title_justify="left")
     for col in ("id", "name", "charge", "step", "pKa", "ΔH°", "ΔCp°", "sources (status)"):
         values.add_column(col, justify="right" if col in ("charge", "step", "pKa", "ΔH°", "ΔCp°") else "left")
@@ -102,6 +102,13 @@ def substances_tables(table: SubstanceTable) -> list[Table]:
                 f"{st.heat_capacity.value:g}" if st.heat_capacity else "—",
                 "; ".join(parts),
             )
+    forms = Table(title="Forms as added, and the compounds each may be weighed as (weighed_as: name or formula; g/mol)", title_justify="left")
+    for col in ("id", "protons removed", "compound", "formula", "g/mol"):
+        forms.add_column(col, justify="right" if col in ("protons removed", "g/mol") else "left")
+    for s in table.substances.values():
+        for i, f in enumerate(s.forms):
+            for j, c in enumerate(f.weighable):
+                forms.add_row(s.id if i == j == 0 else "", str(f.removed) if j == 0 else "", c.compound, c.formula, f"{c.molar_mass:.3f}")
     sources = Table(title="Sources", title_justify="left")
     for col in ("key", "kind", "citation", "checked"):
         sources.add_column(col)
@@ -109,7 +116,7 @@ def substances_tables(table: SubstanceTable) -> list[Table]:
         sources.add_row(src.key, src.kind, src.citation + (f" doi:{src.doi}" if src.doi else ""), src.checked)
     values.caption = "status: " + "; ".join(f"{k} ({v})" for k, v in STATUS_MEANINGS.items())
     values.caption_justify = "left"
-    return [values, sources]
+    return [values, forms, sources]
 
 
 def substances_as_dict(table: SubstanceTable) -> dict[str, Any]:

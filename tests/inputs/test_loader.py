@@ -219,6 +219,8 @@ def test_substances_command() -> None:
     data = json.loads(r.stdout)
     assert len(data["substances"]) >= 25
     assert "tris" in run("substances").stdout
+    listing = run("substances").stdout
+    assert "sodium acetate trihydrate" in listing and "Na2HPO4·12H2O" in listing  # the compounds weighed_as may name
 
 
 def test_solve_a_method_file() -> None:
