@@ -41,3 +41,18 @@ def test_a_ledger_round_trips_and_a_folder_that_is_no_dossier_says_so(tmp_path: 
         read_ledgers(tmp_path)
     with pytest.raises(NotADossier):
         diff_dossiers(tmp_path, tmp_path)
+
+
+def test_changed_inputs_carry_their_unit_and_difference_and_not_the_text_as_written() -> None:
+    """The changes page shows inputs with units, old → new and new − old (issue 15); the
+    written text ("20 mmol/L") is not listed beside its number."""
+    other = MethodBuilder(temperature=30.0).solution(component("acetic-acid", concentration="20 mmol/L"), shortcuts=["weak-acid-square-root"]).build()
+    (d,) = diff_ledgers({"t": LEDGER}, {"t": replace(LEDGER, method=other)}).methods
+    inputs = {c.what: c for c in d.inputs}
+    conc = inputs["solutions[0].components[0].concentration"]
+    assert (conc.old, conc.new, conc.unit) == (pytest.approx(0.010), pytest.approx(0.020), "mol/L")
+    assert conc.difference == pytest.approx(0.010)
+    temp = inputs["conditions.temperature"]
+    assert (temp.unit, temp.difference) == ("°C", pytest.approx(5.0))
+    assert not any(w.endswith("_text") or "_text[" in w for w in inputs)
+    assert all(c.unit for c in d.inputs if c.numeric), [c for c in d.inputs if c.numeric and not c.unit]
