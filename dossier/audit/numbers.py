@@ -31,7 +31,7 @@ import math
 import re
 import shutil
 import subprocess
-from collections.abc import Iterator, Mapping
+from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -174,15 +174,22 @@ def parse_shown(text: str) -> tuple[float, float] | None:
     (-0.025, 5e-05)
     >>> parse_shown("5 mmol/L")
     (0.005, 0.0005)
+
+    A power of ten written alone ("10⁻¹²⁹ %", as one significant digit of
+    1.39 × 10⁻¹²⁹ % is written) shows the digit 1: half a unit of it is half
+    the power.
+
+    >>> parse_shown("10⁻³")
+    (0.001, 0.0005)
     """
     t = html.unescape(text).replace("\u2212", "-").replace("\u2009", " ").replace("\u00a0", " ").replace("\u202f", " ")
     bare = _BARE_POWER.match(t)
-    if bare is not None:  # "10⁻¹⁰": a power of ten written alone, exact to the digits shown elsewhere
+    if bare is not None:  # "10⁻¹⁰": a power of ten written alone, the digit 1 with no decimals
         sign, power, unit = bare.groups()
         if unit not in _UNITS:
             return None
         value = float(f"{sign}1e{power.translate(_SUPERSCRIPT)}") * _UNITS[unit]
-        return value, abs(value) * 5e-10
+        return value, 0.5 * abs(value)
     m = _SHOWN.match(t)
     if m is None:
         return None
@@ -280,19 +287,24 @@ _WORD = re.compile(r'<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax=
 _PAGE = re.compile(r'<page width="[\d.]+" height="([\d.]+)">(.*?)</page>', re.S)
 
 
-def pdf_linked_numbers(path: Path) -> Iterator[tuple[int, str, str]]:
-    """(page number, named destination, shown text) of every link of a PDF's body.
+def pdf_linked_numbers(path: Path, wanted: Callable[[str], bool] = lambda dest: True, reader: Any = None) -> Iterator[tuple[int, str, str]]:
+    """(page number, named destination, shown text) of every link of a PDF's body
+    whose named destination is ``wanted``.
 
-    The link annotations and their named destinations are read with pypdf;
+    The link annotations and their named destinations are read with pypdf
+    (``reader``: a ``PdfReader`` of ``path`` already open, else one is opened);
     the words each link's rectangle covers (a word counts when its centre is
-    inside) with ``pdftotext -bbox``, which reads the text as a reader sees
-    it (through the fonts' ToUnicode maps). A link broken over two lines is
-    two annotations with one destination: their words are joined.
+    inside) with ``pdftotext -bbox``, which reads the text as a reader sees it
+    (through the fonts' ToUnicode maps), for the pages that have such links
+    only. A link broken over two lines is two annotations with one
+    destination: their words are joined.
 
     Raises
     ------
     PdfTextUnavailable
         When pdftotext is not installed.
+    ValueError
+        When the PDF cannot be read (the message says why).
     """
     from pypdf import PdfReader
     from pypdf.errors import PdfReadError
@@ -301,34 +313,48 @@ def pdf_linked_numbers(path: Path) -> Iterator[tuple[int, str, str]]:
     exe = shutil.which("pdftotext")
     if exe is None:
         raise PdfTextUnavailable("pdftotext (poppler-utils) is not installed")
+    links: dict[int, list[tuple[str, tuple[float, float, float, float]]]] = {}
     try:
-        reader = PdfReader(path)
-        links: list[list[tuple[str, tuple[float, float, float, float]]]] = []
-        for page in reader.pages:
-            found = []
+        for n, page in enumerate((reader or PdfReader(path)).pages, start=1):
             for ref in page.get("/Annots", None) or ArrayObject():
                 a = ref.get_object()
                 dest, rect = a.get("/Dest"), a.get("/Rect")
-                if a.get("/Subtype") == "/Link" and isinstance(dest, str) and rect is not None:
+                if a.get("/Subtype") == "/Link" and isinstance(dest, str) and rect is not None and wanted(str(dest)):
                     x0, y0, x1, y1 = (float(v) for v in rect)
-                    found.append((str(dest), (min(x0, x1), min(y0, y1), max(x0, x1), max(y0, y1))))
-            links.append(found)
-    except (PdfReadError, ValueError, KeyError, TypeError, OSError):
-        return
-    if not any(links):
-        return
-    try:
-        xml = subprocess.run([exe, "-bbox", str(path), "-"], capture_output=True, timeout=120, check=True).stdout.decode("utf-8", "replace")
-    except (OSError, subprocess.SubprocessError):
-        return
-    for n, ((height, body), found) in enumerate(zip(_PAGE.findall(xml), links), start=1):
-        words = [(0.5 * (float(a) + float(c)), float(height) - 0.5 * (float(b) + float(d)), html.unescape(w)) for a, b, c, d, w in _WORD.findall(body)]
-        groups: list[tuple[str, float, list[str]]] = []  # destination, bottom of its last line, words
-        for dest, (x0, y0, x1, y1) in found:
-            inside = [w for x, y, w in words if x0 <= x <= x1 and y0 <= y <= y1]
-            if groups and groups[-1][0] == dest and y1 <= groups[-1][1] + 1.0:  # the same link, wrapped to the next line
-                groups[-1] = (dest, y0, groups[-1][2] + inside)
-            else:
-                groups.append((dest, y0, inside))
-        for dest, _, inside in groups:
-            yield n, dest, " ".join(inside).strip(";,:()")
+                    links.setdefault(n, []).append((str(dest), (min(x0, x1), min(y0, y1), max(x0, x1), max(y0, y1))))
+    except (PdfReadError, ValueError, KeyError, TypeError, OSError) as exc:
+        raise ValueError(f"cannot read the links: {type(exc).__name__}: {exc}") from None
+    for first, last in _runs(sorted(links)):
+        try:
+            run = subprocess.run([exe, "-bbox", "-f", str(first), "-l", str(last), str(path), "-"], capture_output=True, timeout=300, check=True)
+        except (OSError, subprocess.SubprocessError) as exc:
+            raise ValueError(f"pdftotext cannot read pages {first}–{last}: {exc}") from None
+        for n, (height, body) in enumerate(_PAGE.findall(run.stdout.decode("utf-8", "replace")), start=first):
+            yield from _linked_words(n, float(height), body, links.get(n, []))
+
+
+def _runs(pages: list[int]) -> Iterator[tuple[int, int]]:
+    """Runs of consecutive page numbers: [3, 4, 5, 9] → (3, 5), (9, 9)."""
+    start = prev = None
+    for p in pages:
+        if start is None or prev is None or p != prev + 1:
+            if start is not None and prev is not None:
+                yield start, prev
+            start = p
+        prev = p
+    if start is not None and prev is not None:
+        yield start, prev
+
+
+def _linked_words(n: int, height: float, body: str, found: list[tuple[str, tuple[float, float, float, float]]]) -> Iterator[tuple[int, str, str]]:
+    """The words inside each link's rectangle on page ``n`` (pdftotext's page element ``body``)."""
+    words = [(0.5 * (float(a) + float(c)), height - 0.5 * (float(b) + float(d)), html.unescape(w)) for a, b, c, d, w in _WORD.findall(body)]
+    groups: list[tuple[str, float, list[str]]] = []  # destination, bottom of its last line, words
+    for dest, (x0, y0, x1, y1) in found:
+        inside = [w for x, y, w in words if x0 <= x <= x1 and y0 <= y <= y1]
+        if groups and groups[-1][0] == dest and y1 <= groups[-1][1] + 1.0:  # the same link, wrapped to the next line
+            groups[-1] = (dest, y0, groups[-1][2] + inside)
+        else:
+            groups.append((dest, y0, inside))
+    for dest, _, inside in groups:
+        yield n, dest, " ".join(inside).strip(";,:()")

@@ -26,6 +26,7 @@ import json
 from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
+from typing import Any
 
 from .. import __version__
 from ..analysis.ledger import ledger_entries
@@ -170,13 +171,14 @@ def _check_fingerprint(out: Path, manifest: Manifest, texts: _PdfTexts | None = 
     return mm
 
 
-def pdf_page_texts(path: Path) -> list[str]:
-    """The text of each page of a PDF (pypdf's extraction; an unreadable PDF gives one empty page)."""
+def pdf_page_texts(path: Path, reader: Any = None) -> list[str]:
+    """The text of each page of a PDF (pypdf's extraction, with ``reader`` when one is open;
+    an unreadable PDF gives one empty page)."""
     from pypdf import PdfReader
     from pypdf.errors import PdfReadError
 
     try:
-        return [page.extract_text() or "" for page in PdfReader(path).pages]
+        return [page.extract_text() or "" for page in (reader or PdfReader(path)).pages]
     except (PdfReadError, ValueError, KeyError, TypeError, OSError):
         return [""]
 
@@ -286,7 +288,9 @@ def _check_shown_numbers(out: Path, manifest: Manifest, fresh: dict[str, Fresh],
         elif o.path.endswith(".pdf"):
             mm += _check_pdf_numbers(o.path, texts.of(o.path), fresh)
             try:
-                mm += _check_pdf_links(o.path, p, fresh)
+                mm += _check_pdf_links(o.path, p, fresh, texts.reader(o.path))
+            except ValueError as exc:
+                mm.append(Mismatch(o.path, "", f"the numbers of its body cannot be read: {exc}"))
             except PdfTextUnavailable as exc:
                 if not any(n.startswith("the numbers in the body of the PDFs") for n in notes):
                     notes.append(f"the numbers in the body of the PDFs were not read: {exc} (their ledger appendices were)")
@@ -316,12 +320,12 @@ def _check_pdf_numbers(rel: str, pages: list[str], fresh: dict[str, Fresh]) -> l
     return mm
 
 
-def _check_pdf_links(rel: str, path: Path, fresh: dict[str, Fresh]) -> list[Mismatch]:
+def _check_pdf_links(rel: str, path: Path, fresh: dict[str, Fresh], reader: object = None) -> list[Mismatch]:
     """Every number of a PDF's body that links to its ledger entry (named destination
     ``METHOD-L-ID``), at the precision shown."""
     own = LAYOUT.method_of(rel)
     mm: list[Mismatch] = []
-    for n, dest, shown in pdf_linked_numbers(path):
+    for n, dest, shown in pdf_linked_numbers(path, lambda dest: "-L-" in dest, reader):
         mid = own if own is not None and dest.startswith(f"{own}-L-") else next((m for m in fresh if dest.startswith(f"{m}-L-")), None)
         f = fresh.get(mid) if mid is not None else None
         if f is None:
@@ -374,15 +378,29 @@ def pdf_attachments(path: Path) -> dict[str, str]:
 
 
 class _PdfTexts:
-    """The text of each page of each PDF of a dossier, read once per verification."""
+    """The text of each page of each PDF of a dossier, read once per verification, and
+    the open reader of each (its parsed objects serve the links of the body too)."""
 
     def __init__(self, out: Path) -> None:
         self.out = out
         self.cache: dict[str, list[str]] = {}
+        self.readers: dict[str, Any] = {}
+
+    def reader(self, rel: str) -> Any:
+        """pypdf's reader of a PDF (None when it cannot be opened)."""
+        if rel not in self.readers:
+            from pypdf import PdfReader
+            from pypdf.errors import PdfReadError
+
+            try:
+                self.readers[rel] = PdfReader(self.out / rel)
+            except (PdfReadError, ValueError, KeyError, TypeError, OSError):
+                self.readers[rel] = None
+        return self.readers[rel]
 
     def of(self, rel: str) -> list[str]:
         if rel not in self.cache:
-            self.cache[rel] = pdf_page_texts(self.out / rel)
+            self.cache[rel] = pdf_page_texts(self.out / rel, self.reader(rel))
         return self.cache[rel]
 
 
