@@ -23,6 +23,8 @@ Each mismatch is reported by file and place, with both values.
 from __future__ import annotations
 
 import json
+import shutil
+import subprocess
 from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
@@ -165,7 +167,7 @@ def _check_fingerprint(out: Path, manifest: Manifest, texts: _PdfTexts | None = 
             if line not in p.read_text(encoding="utf-8", errors="replace"):
                 mm.append(Mismatch(o.path, "footer", f"does not show this dossier's fingerprint line {line!r}"))
         elif o.path.endswith(".pdf"):
-            for n, text in enumerate((texts or _PdfTexts(out)).of(o.path), start=1):
+            for n, text in enumerate((texts or _PdfTexts(out)).quick(o.path), start=1):
                 if line not in text:
                     mm.append(Mismatch(o.path, f"page {n}", f"does not show this dossier's fingerprint line {line!r}"))
     return mm
@@ -286,7 +288,7 @@ def _check_shown_numbers(out: Path, manifest: Manifest, fresh: dict[str, Fresh],
                 place = f"number linked to {eid}" if ledger_page != o.path else f"ledger row {eid}"
                 mm += _shown(o.path, place, shown, eid, f)
         elif o.path.endswith(".pdf"):
-            mm += _check_pdf_numbers(o.path, texts.of(o.path), fresh)
+            mm += _check_pdf_numbers(o.path, texts, fresh)
             try:
                 mm += _check_pdf_links(o.path, p, fresh, texts.reader(o.path))
             except ValueError as exc:
@@ -306,11 +308,21 @@ def _shown(rel: str, place: str, shown: str, eid: str, f: Fresh) -> list[Mismatc
     return []
 
 
-def _check_pdf_numbers(rel: str, pages: list[str], fresh: dict[str, Fresh]) -> list[Mismatch]:
-    """The ledger appendix of a method PDF, or of each method report bound into the dossier PDF."""
+def _check_pdf_numbers(rel: str, texts: _PdfTexts, fresh: dict[str, Fresh]) -> list[Mismatch]:
+    """The ledger appendix of a method PDF, or of each method report bound into the dossier PDF:
+    every entry has its row (the named destination ``METHOD-L-ID``), and each row's value, read
+    from the pages those destinations point to, is the re-computed one at the precision shown."""
     own = LAYOUT.method_of(rel)
     mm: list[Mismatch] = []
-    for n, text in enumerate(pages, start=1):
+    pages = texts.ledger_pages(rel)
+    if pages is not None:
+        anchors = pages[1]
+        for mid, f in fresh.items():
+            if own is not None and mid != own:
+                continue
+            missing = [eid for eid in f.values if f"{mid}-L-{eid}" not in anchors]
+            mm += [Mismatch(rel, f"ledger row {eid}", "missing: the PDF has no ledger row for this entry") for eid in missing]
+    for n, text in (pages[0] if pages is not None else dict(enumerate(texts.of(rel), start=1))).items():
         mid = own if own is not None else next((m for m in fresh if f"{m} · revision" in text), None)
         f = fresh.get(mid) if mid is not None else None
         if f is None:
@@ -378,12 +390,20 @@ def pdf_attachments(path: Path) -> dict[str, str]:
 
 
 class _PdfTexts:
-    """The text of each page of each PDF of a dossier, read once per verification, and
-    the open reader of each (its parsed objects serve the links of the body too)."""
+    """The text of the pages of each PDF of a dossier, read once per verification.
+
+    ``quick``: every page, by pdftotext (fast; pypdf's extraction without it), for the
+    fingerprint line. ``of``: every page by pypdf's extraction, whose lines the ledger
+    appendix is parsed from (:func:`~dossier.audit.numbers.ledger_lines`); ``ledger_pages``
+    the same for only the pages the ledger rows' named destinations point to (pypdf's
+    extraction is most of the time ``verify`` spends on PDFs). The open reader of each
+    PDF serves the links of the body too.
+    """
 
     def __init__(self, out: Path) -> None:
         self.out = out
         self.cache: dict[str, list[str]] = {}
+        self.fast: dict[str, list[str]] = {}
         self.readers: dict[str, Any] = {}
 
     def reader(self, rel: str) -> Any:
@@ -402,6 +422,32 @@ class _PdfTexts:
         if rel not in self.cache:
             self.cache[rel] = pdf_page_texts(self.out / rel, self.reader(rel))
         return self.cache[rel]
+
+    def quick(self, rel: str) -> list[str]:
+        if rel not in self.fast:
+            exe = shutil.which("pdftotext")
+            try:
+                if exe is None:
+                    raise OSError("no pdftotext")
+                text = subprocess.run([exe, str(self.out / rel), "-"], capture_output=True, timeout=300, check=True).stdout.decode("utf-8", "replace")
+                self.fast[rel] = text.split("\f")[:-1] or [""]
+            except (OSError, subprocess.SubprocessError):
+                self.fast[rel] = self.of(rel)
+        return self.fast[rel]
+
+    def ledger_pages(self, rel: str) -> tuple[dict[int, str], set[str]] | None:
+        """({page number: pypdf's text} of the pages the named destinations ``…-L-…`` point to,
+        every such destination), or None when the destinations cannot be read."""
+        from pypdf.errors import PdfReadError
+
+        r = self.reader(rel)
+        if r is None:
+            return None
+        try:
+            names = {name: r.get_destination_page_number(d) + 1 for name, d in r.named_destinations.items() if "-L-" in name}
+            return {n: r.pages[n - 1].extract_text() or "" for n in sorted(set(names.values()))}, set(names)
+        except (PdfReadError, ValueError, KeyError, TypeError, IndexError, OSError):
+            return None
 
 
 def _check_method_files(manifest: Manifest, methods: list[str | Path]) -> list[Mismatch]:
