@@ -395,7 +395,7 @@ def _run_diff(args: argparse.Namespace) -> int:
             if rows:
                 print(f"  {title}:")
                 for c in rows:
-                    print(f"    {c.what}: {c.old!r} → {c.new!r}")
+                    print(f"    {c.what}: {c.old!r} → {c.new!r}" + (f" [{c.unit}]" if c.unit else ""))
     return EXIT_OK
 
 

@@ -13,7 +13,7 @@ from typing import Any
 from ..inputs.serialize import method_to_dict
 from .ledger import Ledger, settings_to_dict
 
-__all__ = ["Change", "MethodDiff", "DossierDiff", "diff_ledgers", "REL_TOL"]
+__all__ = ["Change", "MethodDiff", "DossierDiff", "diff_ledgers", "input_unit", "REL_TOL", "INPUT_UNITS"]
 
 REL_TOL = 1e-9
 """Relative tolerance under which two numbers count as the same."""
@@ -29,10 +29,15 @@ class Change:
     unit: str | None = None
 
     @property
+    def numeric(self) -> bool:
+        """Each side is a number or absent (an entry added or removed), and one is a number."""
+        sides = [v for v in (self.old, self.new) if v is not None]
+        return bool(sides) and all(isinstance(v, (int, float)) and not isinstance(v, bool) for v in sides)
+
+    @property
     def difference(self) -> float | None:
         """new − old for two numbers, else None."""
-        numeric = (int, float)
-        if isinstance(self.old, numeric) and isinstance(self.new, numeric) and not isinstance(self.old, bool) and not isinstance(self.new, bool):
+        if self.numeric and self.old is not None and self.new is not None:
             return float(self.new) - float(self.old)
         return None
 
@@ -98,9 +103,35 @@ def _pairs(old: dict[str, Any], new: dict[str, Any]) -> list[Change]:
 
 _NOT_INPUTS = ("source_sha256", "path", "change_reason")  # the reason is shown on its own
 
+INPUT_UNITS: dict[str, str] = {
+    "concentration": "mol/L", "tolerance": "mol/L", "working_range": "mol/L", "strong_acid": "mol/L", "strong_base": "mol/L",
+    "solubility": "mol/L", "co2_total": "mol/L", "amount": "mol/L", "stock": "mol/L",
+    "temperature": "°C", "temperature_tolerance": "°C", "stated_temperature": "°C",
+    "background": "mol/kg", "background_tolerance": "mol/kg", "stated_ionic_strength": "mol/kg",
+    "stated": "pKa", "thermodynamic": "pKa", "at_working_temperature": "pKa", "uncertainty": "pKa",
+    "enthalpy": "kJ/mol", "heat_capacity": "J/(K·mol)", "molar_mass": "g/mol", "co2_partial_pressure": "atm",
+    "max_ph_error": "pH", "target_ph": "pH",
+}
+"""Unit of each numeric field of a method as the ledger records it (:class:`~dossier.inputs.model.Method`,
+the units the loader converts to), by the field's name; a field not listed (a word, a count,
+a fraction such as ``criteria.probability``) has none."""
+
+
+def input_unit(path: str) -> str | None:
+    """The unit of an input by its field path (``solutions[0].components[0].working_range[1]`` → mol/L).
+
+    >>> input_unit("conditions.temperature")
+    '°C'
+    """
+    leaf = path.rsplit(".", 1)[-1].split("[", 1)[0]
+    return INPUT_UNITS.get(leaf)
+
 
 def _inputs(ledger: Ledger) -> dict[str, Any]:
-    flat = {k: v for k, v in _flatten(method_to_dict(ledger.method)).items() if k not in _NOT_INPUTS}
+    """Every input of a method and the settings, by field path; the texts as written
+    (``concentration_text`` …) are left out: their numbers are compared, with units."""
+    flat = {k: v for k, v in _flatten(method_to_dict(ledger.method)).items()
+            if k not in _NOT_INPUTS and not k.rsplit(".", 1)[-1].split("[", 1)[0].endswith("_text")}
     flat.update({f"settings.{k}": v for k, v in settings_to_dict(ledger.settings).items()})
     return flat
 
@@ -114,7 +145,7 @@ def diff_ledgers(old: dict[str, Ledger], new: dict[str, Ledger], old_label: str 
             methods.append(MethodDiff(mid, "added" if a is None else "removed",
                                       None if a is None else a.method.revision, None if b is None else b.method.revision, (), (), ()))
             continue
-        inputs = _pairs(_inputs(a), _inputs(b))
+        inputs = [Change(c.what, c.old, c.new, input_unit(c.what)) for c in _pairs(_inputs(a), _inputs(b))]
         units = {**{e.id: e.unit for e in a.entries}, **{e.id: e.unit for e in b.entries}}
         numbers = [Change(c.what, c.old, c.new, units.get(c.what)) for c in _pairs(a.values(), b.values())]
         verdicts = _pairs(dict(a.verdicts), dict(b.verdicts))

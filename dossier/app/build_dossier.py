@@ -266,7 +266,14 @@ def _method_outcomes(methods: tuple[Method, ...], ctx: BuildContext, store: Cach
     return tuple(got[m.id] for m in methods), tuple(m.id for m in todo)
 
 
-def _dossier_workbook(outcomes: tuple[MethodOutcome, ...]) -> bytes:
+def dossier_data_files(methods: dict[str, dict[str, bytes]]) -> dict[str, bytes]:
+    """The dossier-wide data files made from every method's ({method id: {dossier path:
+    bytes}}, in the dossier's order): dossier.xlsx. ``dossier verify`` makes them afresh
+    the same way."""
+    return {LAYOUT.dossier_workbook: _dossier_workbook(methods)}
+
+
+def _dossier_workbook(methods: dict[str, dict[str, bytes]]) -> bytes:
     """One workbook for the whole dossier: the validity and sensitivity tables of every
     method, one sheet each, with a first column naming the method (the sweeps are in each
     method's own workbook)."""
@@ -280,9 +287,8 @@ def _dossier_workbook(outcomes: tuple[MethodOutcome, ...]) -> bytes:
         buf = io.StringIO()
         w = csv.writer(buf, lineterminator="\n")
         header_written = False
-        for o in outcomes:
-            mid = o.analysis.method.id
-            rows = list(csv.reader(io.StringIO(o.files[LAYOUT.table(mid, name)].decode("utf-8"))))
+        for mid, files in methods.items():
+            rows = list(csv.reader(io.StringIO(files[LAYOUT.table(mid, name)].decode("utf-8"))))
             if not header_written:
                 w.writerow(["method", *rows[0]])
                 header_written = True
@@ -303,7 +309,7 @@ def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff:
     files: dict[str, bytes] = {}
     for o in outcomes:
         files.update(o.files)
-    files[LAYOUT.dossier_workbook] = _dossier_workbook(outcomes)
+    files.update(dossier_data_files({o.analysis.method.id: o.files for o in outcomes}))
     if not ctx.site:
         return files
     diff_key = None if diff is None else hashlib.sha256(repr(diff).encode()).hexdigest()

@@ -8,13 +8,14 @@ from pathlib import Path
 from ..audit.verify import VerifyReport
 from ..audit.verify import verify as audit_verify
 from ..render.site import data_files
+from .build_dossier import dossier_data_files
 
 __all__ = ["verify"]
 
 
 def verify(output: str | Path, *, methods: list[str | Path] | None = None, progress: Callable[[str], None] | None = None) -> VerifyReport:
     """Check a built dossier: every file's hash, the fingerprint on every page, every
-    ledger entry re-computed, every number shown (data files, pages, PDFs), the method
+    ledger entry re-computed, every number shown (data files and workbooks, pages, PDFs' bodies and ledger appendices), the method
     files given, and every signature beside it (:func:`dossier.audit.verify.verify`).
 
     Raises
@@ -22,4 +23,4 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     NotADossier
         When the folder holds no manifest (it is not a dossier).
     """
-    return audit_verify(output, methods=methods, progress=progress, data_files=data_files)
+    return audit_verify(output, methods=methods, progress=progress, data_files=data_files, dossier_data_files=dossier_data_files)

@@ -11,11 +11,14 @@ re-computation, wherever it shows it:
   (``…ledger.html#L-ID``) and every value of the ledger page, at the
   precision shown (a number shown with three decimals must be the
   re-computed one rounded to three decimals, units such as mmol/L and % converted);
-- **PDFs**: every value of the "Calculation ledger" appendix (entry id and
-  value on one line of the PDF's text), at the precision shown.
+- **PDFs**: every number of the body that links to its ledger entry (a link
+  annotation whose named destination is ``METHOD-L-ID``; the words inside its
+  rectangle, read with their positions by ``pdftotext -bbox``), and every
+  value of the "Calculation ledger" appendix (entry id and value on one line
+  of the PDF's text), at the precision shown.
 
-Each difference is a :class:`~dossier.audit.verify.Mismatch`-like triple:
-file, place, and the message with both values.
+Each difference is a :class:`Mismatch`: file, place, and the message with both
+values (the one record of :mod:`dossier.audit.verify` too).
 """
 
 from __future__ import annotations
@@ -26,59 +29,69 @@ import io
 import json
 import math
 import re
-from collections.abc import Iterator, Mapping
+import shutil
+import subprocess
+from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass
+from pathlib import Path
 from typing import Any
 
-__all__ = ["Difference", "compare_json", "compare_csv", "compare_workbook", "parse_shown", "shown_matches", "page_numbers", "ledger_lines"]
+__all__ = ["Mismatch", "close", "REL_TOL", "ABS_TOL", "compare_json", "pdf_linked_numbers", "PdfTextUnavailable", "compare_csv", "compare_workbook", "parse_shown", "shown_matches", "page_numbers", "ledger_lines"]
 
 REL_TOL = 1e-9
 ABS_TOL = 1e-12
 
 
 @dataclass(frozen=True)
-class Difference:
-    """A published value that is not the re-computed one: file, place, message."""
+class Mismatch:
+    """One thing of a dossier that does not match: the file, the place in it
+    (a JSON path, a CSV line and column, a sheet and cell, a PDF page and
+    entry; empty for the whole file) and the message with both values."""
 
     file: str
     place: str
     message: str
 
+    def __str__(self) -> str:
+        where = f"{self.file}: {self.place}" if self.place else self.file
+        return f"{where}: {self.message}"
 
-def _close(a: float, b: float) -> bool:
+
+def close(a: float, b: float) -> bool:
+    """Two numbers of a data file are the same: within :data:`REL_TOL` relative (:data:`ABS_TOL` near zero), or both NaN."""
     if math.isnan(a) and math.isnan(b):
         return True
     return math.isclose(a, b, rel_tol=REL_TOL, abs_tol=ABS_TOL)
 
 
 # ---------------------------------------------------------------- data files
-def compare_json(file: str, shown: Any, fresh: Any, place: str = "") -> Iterator[Difference]:
+def compare_json(file: str, shown: Any, fresh: Any, place: str = "") -> Iterator[Mismatch]:
     """Every value of the published JSON ``shown`` against ``fresh`` (same structure expected)."""
     where = place or "(top)"
     if isinstance(fresh, dict):
         if not isinstance(shown, dict):
-            yield Difference(file, where, f"shows {_short(shown)}, re-computed an object")
+            yield Mismatch(file, where, f"shows {_short(shown)}, re-computed an object")
             return
         for k in fresh.keys() | shown.keys():
             sub = f"{place}.{k}" if place else k
             if k not in shown:
-                yield Difference(file, sub, "missing (the re-computation has it)")
+                yield Mismatch(file, sub, "missing (the re-computation has it)")
             elif k not in fresh:
-                yield Difference(file, sub, f"shows {_short(shown[k])}, which the re-computation does not have")
+                yield Mismatch(file, sub, f"shows {_short(shown[k])}, which the re-computation does not have")
             else:
                 yield from compare_json(file, shown[k], fresh[k], sub)
     elif isinstance(fresh, list):
         if not isinstance(shown, list) or len(shown) != len(fresh):
-            yield Difference(file, where, f"shows {_short(shown)}, re-computed {_short(fresh)}")
+            yield Mismatch(file, where, f"shows {_short(shown)}, re-computed {_short(fresh)}")
             return
         for i, (s, f) in enumerate(zip(shown, fresh)):
             yield from compare_json(file, s, f, f"{place}[{i}]")
     elif isinstance(fresh, bool) or fresh is None or isinstance(fresh, str):
         if shown != fresh:
-            yield Difference(file, where, f"shows {_short(shown)}, re-computed {_short(fresh)}")
+            yield Mismatch(file, where, f"shows {_short(shown)}, re-computed {_short(fresh)}")
     elif isinstance(fresh, (int, float)):
-        if isinstance(shown, bool) or not isinstance(shown, (int, float)) or not _close(float(shown), float(fresh)):
-            yield Difference(file, where, f"shows {_short(shown)}, re-computed {fresh!r}")
+        if isinstance(shown, bool) or not isinstance(shown, (int, float)) or not close(float(shown), float(fresh)):
+            yield Mismatch(file, where, f"shows {_short(shown)}, re-computed {fresh!r}")
 
 
 def _short(v: Any) -> str:
@@ -86,15 +99,15 @@ def _short(v: Any) -> str:
     return text if len(text) <= 60 else text[:57] + "…"
 
 
-def compare_csv(file: str, shown: str, fresh: str) -> Iterator[Difference]:
+def compare_csv(file: str, shown: str, fresh: str) -> Iterator[Mismatch]:
     """Every cell of a published CSV table against the same table made afresh."""
     a, b = list(csv.reader(io.StringIO(shown))), list(csv.reader(io.StringIO(fresh)))
     if not a or not b or a[0] != b[0]:
-        yield Difference(file, "header", f"shows {a[0] if a else []}, re-computed {b[0] if b else []}")
+        yield Mismatch(file, "header", f"shows {a[0] if a else []}, re-computed {b[0] if b else []}")
         return
     header = b[0]
     if len(a) != len(b):
-        yield Difference(file, "rows", f"shows {len(a) - 1} rows, re-computed {len(b) - 1}")
+        yield Mismatch(file, "rows", f"shows {len(a) - 1} rows, re-computed {len(b) - 1}")
     for r, (row_a, row_b) in enumerate(zip(a[1:], b[1:]), start=2):
         for c, name in enumerate(header):
             x = row_a[c] if c < len(row_a) else ""
@@ -102,35 +115,35 @@ def compare_csv(file: str, shown: str, fresh: str) -> Iterator[Difference]:
             if x == y:
                 continue
             try:
-                same = _close(float(x), float(y))
+                same = close(float(x), float(y))
             except ValueError:
                 same = False
             if not same:
-                yield Difference(file, f"line {r}, column {name}", f"shows {x!r}, re-computed {y!r}")
+                yield Mismatch(file, f"line {r}, column {name}", f"shows {x!r}, re-computed {y!r}")
 
 
-def compare_workbook(file: str, shown: bytes, fresh: bytes) -> Iterator[Difference]:
+def compare_workbook(file: str, shown: bytes, fresh: bytes) -> Iterator[Mismatch]:
     """Every cell of every sheet of a published workbook against the same workbook made afresh."""
     from openpyxl import load_workbook
 
     try:
         a = load_workbook(io.BytesIO(shown), read_only=True, data_only=True)
     except Exception as exc:  # noqa: BLE001 - any damage of the file is a finding, not a crash
-        yield Difference(file, "", f"cannot be read as a workbook: {type(exc).__name__}: {exc}")
+        yield Mismatch(file, "", f"cannot be read as a workbook: {type(exc).__name__}: {exc}")
         return
     b = load_workbook(io.BytesIO(fresh), read_only=True, data_only=True)
     if a.sheetnames != b.sheetnames:
-        yield Difference(file, "sheets", f"shows {a.sheetnames}, re-computed {b.sheetnames}")
+        yield Mismatch(file, "sheets", f"shows {a.sheetnames}, re-computed {b.sheetnames}")
         return
     for name in b.sheetnames:
         rows_a, rows_b = list(a[name].iter_rows(values_only=True)), list(b[name].iter_rows(values_only=True))
         if len(rows_a) != len(rows_b):
-            yield Difference(file, f"sheet {name}", f"shows {len(rows_a)} rows, re-computed {len(rows_b)}")
+            yield Mismatch(file, f"sheet {name}", f"shows {len(rows_a)} rows, re-computed {len(rows_b)}")
         for r, (ra, rb) in enumerate(zip(rows_a, rows_b), start=1):
             for c, (x, y) in enumerate(zip(ra, rb)):
-                same = x == y or (isinstance(x, (int, float)) and isinstance(y, (int, float)) and not isinstance(x, bool) and _close(float(x), float(y)))
+                same = x == y or (isinstance(x, (int, float)) and isinstance(y, (int, float)) and not isinstance(x, bool) and close(float(x), float(y)))
                 if not same:
-                    yield Difference(file, f"sheet {name}, cell {_column(c)}{r}", f"shows {x!r}, re-computed {y!r}")
+                    yield Mismatch(file, f"sheet {name}, cell {_column(c)}{r}", f"shows {x!r}, re-computed {y!r}")
 
 
 def _column(index: int) -> str:
@@ -161,15 +174,22 @@ def parse_shown(text: str) -> tuple[float, float] | None:
     (-0.025, 5e-05)
     >>> parse_shown("5 mmol/L")
     (0.005, 0.0005)
+
+    A power of ten written alone ("10⁻¹²⁹ %", as one significant digit of
+    1.39 × 10⁻¹²⁹ % is written) shows the digit 1: half a unit of it is half
+    the power.
+
+    >>> parse_shown("10⁻³")
+    (0.001, 0.0005)
     """
     t = html.unescape(text).replace("\u2212", "-").replace("\u2009", " ").replace("\u00a0", " ").replace("\u202f", " ")
     bare = _BARE_POWER.match(t)
-    if bare is not None:  # "10⁻¹⁰": a power of ten written alone, exact to the digits shown elsewhere
+    if bare is not None:  # "10⁻¹⁰": a power of ten written alone, the digit 1 with no decimals
         sign, power, unit = bare.groups()
         if unit not in _UNITS:
             return None
         value = float(f"{sign}1e{power.translate(_SUPERSCRIPT)}") * _UNITS[unit]
-        return value, abs(value) * 5e-10
+        return value, 0.5 * abs(value)
     m = _SHOWN.match(t)
     if m is None:
         return None
@@ -257,3 +277,84 @@ def ledger_lines(page_text: str, units: Mapping[str, str]) -> Iterator[tuple[str
         found = [m.group(1) for m in _TOKEN_NUMBER.finditer(row) if row[m.end():].replace(" ", "").startswith(unit)]
         if found:
             yield hit.group(1), found[-1]
+
+
+class PdfTextUnavailable(RuntimeError):
+    """pdftotext (poppler-utils), which reads the words of a PDF with their positions, is not installed."""
+
+
+_WORD = re.compile(r'<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">(.*?)</word>')
+_PAGE = re.compile(r'<page width="[\d.]+" height="([\d.]+)">(.*?)</page>', re.S)
+
+
+def pdf_linked_numbers(path: Path, wanted: Callable[[str], bool] = lambda dest: True, reader: Any = None) -> Iterator[tuple[int, str, str]]:
+    """(page number, named destination, shown text) of every link of a PDF's body
+    whose named destination is ``wanted``.
+
+    The link annotations and their named destinations are read with pypdf
+    (``reader``: a ``PdfReader`` of ``path`` already open, else one is opened);
+    the words each link's rectangle covers (a word counts when its centre is
+    inside) with ``pdftotext -bbox``, which reads the text as a reader sees it
+    (through the fonts' ToUnicode maps), for the pages that have such links
+    only. A link broken over two lines is two annotations with one
+    destination: their words are joined.
+
+    Raises
+    ------
+    PdfTextUnavailable
+        When pdftotext is not installed.
+    ValueError
+        When the PDF cannot be read (the message says why).
+    """
+    from pypdf import PdfReader
+    from pypdf.errors import PdfReadError
+    from pypdf.generic import ArrayObject
+
+    exe = shutil.which("pdftotext")
+    if exe is None:
+        raise PdfTextUnavailable("pdftotext (poppler-utils) is not installed")
+    links: dict[int, list[tuple[str, tuple[float, float, float, float]]]] = {}
+    try:
+        for n, page in enumerate((reader or PdfReader(path)).pages, start=1):
+            for ref in page.get("/Annots", None) or ArrayObject():
+                a = ref.get_object()
+                dest, rect = a.get("/Dest"), a.get("/Rect")
+                if a.get("/Subtype") == "/Link" and isinstance(dest, str) and rect is not None and wanted(str(dest)):
+                    x0, y0, x1, y1 = (float(v) for v in rect)
+                    links.setdefault(n, []).append((str(dest), (min(x0, x1), min(y0, y1), max(x0, x1), max(y0, y1))))
+    except (PdfReadError, ValueError, KeyError, TypeError, OSError) as exc:
+        raise ValueError(f"cannot read the links: {type(exc).__name__}: {exc}") from None
+    for first, last in _runs(sorted(links)):
+        try:
+            run = subprocess.run([exe, "-bbox", "-f", str(first), "-l", str(last), str(path), "-"], capture_output=True, timeout=300, check=True)
+        except (OSError, subprocess.SubprocessError) as exc:
+            raise ValueError(f"pdftotext cannot read pages {first}–{last}: {exc}") from None
+        for n, (height, body) in enumerate(_PAGE.findall(run.stdout.decode("utf-8", "replace")), start=first):
+            yield from _linked_words(n, float(height), body, links.get(n, []))
+
+
+def _runs(pages: list[int]) -> Iterator[tuple[int, int]]:
+    """Runs of consecutive page numbers: [3, 4, 5, 9] → (3, 5), (9, 9)."""
+    start = prev = None
+    for p in pages:
+        if start is None or prev is None or p != prev + 1:
+            if start is not None and prev is not None:
+                yield start, prev
+            start = p
+        prev = p
+    if start is not None and prev is not None:
+        yield start, prev
+
+
+def _linked_words(n: int, height: float, body: str, found: list[tuple[str, tuple[float, float, float, float]]]) -> Iterator[tuple[int, str, str]]:
+    """The words inside each link's rectangle on page ``n`` (pdftotext's page element ``body``)."""
+    words = [(0.5 * (float(a) + float(c)), height - 0.5 * (float(b) + float(d)), html.unescape(w)) for a, b, c, d, w in _WORD.findall(body)]
+    groups: list[tuple[str, float, list[str]]] = []  # destination, bottom of its last line, words
+    for dest, (x0, y0, x1, y1) in found:
+        inside = [w for x, y, w in words if x0 <= x <= x1 and y0 <= y <= y1]
+        if groups and groups[-1][0] == dest and y1 <= groups[-1][1] + 1.0:  # the same link, wrapped to the next line
+            groups[-1] = (dest, y0, groups[-1][2] + inside)
+        else:
+            groups.append((dest, y0, inside))
+    for dest, _, inside in groups:
+        yield n, dest, " ".join(inside).strip(";,:()")

@@ -4,10 +4,11 @@
    no other file is there.
 2. Every ledger entry is re-computed from the inputs the ledger records (the
    whole analysis is re-run with the recorded settings and seed) and compared.
-3. Every number shown — in results.json and the CSV tables (against the same
-   files made afresh), on the pages (each number linked to its ledger entry,
-   each row of a ledger page) and in the PDFs (each row of the ledger
-   appendix) — is the re-computed one at the precision shown.
+3. Every number shown — in results.json, the CSV tables and the workbooks
+   (each method's and dossier.xlsx, against the same files made afresh), on
+   the pages (each number linked to its ledger entry, each row of a ledger
+   page) and in the PDFs (each number of the body linked to its ledger entry,
+   each row of the ledger appendix) — is the re-computed one at the precision shown.
 4. The fingerprint the manifest records is the SHA-256 of its sealed part,
    and every page and every PDF page shows it (with the tool's version and commit).
 5. Each published method file (``methods/ID/ID.yaml``) is the one the
@@ -16,16 +17,18 @@
 7. Every signature beside the dossier is the signer's and signed this
    dossier's fingerprint and manifest (:mod:`dossier.audit.signatures`).
 
-Each mismatch is reported by file and entry.
+Each mismatch is reported by file and place, with both values.
 """
 
 from __future__ import annotations
 
 import json
-import math
+import shutil
+import subprocess
 from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
+from typing import Any
 
 from .. import __version__
 from ..analysis.ledger import ledger_entries
@@ -34,27 +37,11 @@ from ..inputs.loader import find_method_files
 from ..layout import LAYOUT
 from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
 from .diff import NotADossier, read_ledger
-from .numbers import compare_csv, compare_json, compare_workbook, ledger_lines, page_numbers, shown_matches
+from .numbers import (ABS_TOL, REL_TOL, Mismatch, PdfTextUnavailable, close, compare_csv, compare_json, compare_workbook, ledger_lines,
+                      page_numbers, pdf_linked_numbers, shown_matches)
 from .signatures import SignatureCheck, check_signatures, manifest_sha256
 
 __all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "REL_TOL", "ABS_TOL"]
-
-REL_TOL = 1e-9
-ABS_TOL = 1e-12
-
-
-@dataclass(frozen=True)
-class Mismatch:
-    """One thing that does not match: where, and what."""
-
-    file: str
-    entry: str
-    message: str
-
-    def __str__(self) -> str:
-        where = f"{self.file}: {self.entry}" if self.entry else self.file
-        return f"{where}: {self.message}"
-
 
 @dataclass(frozen=True)
 class VerifyReport:
@@ -73,20 +60,19 @@ class VerifyReport:
         return not self.mismatches
 
 
-def _close(a: float, b: float) -> bool:
-    if math.isnan(a) and math.isnan(b):
-        return True
-    return math.isclose(a, b, rel_tol=REL_TOL, abs_tol=ABS_TOL)
-
-
 DataFiles = Callable[[MethodAnalysis, str], dict[str, bytes]]
 """Makes a method's data files (results.json, CSV tables; {dossier path: bytes}) afresh
 from a re-computed analysis and the substance table's SHA-256 (the application layer
 passes the renderer's own function; audit does not import render)."""
 
+DossierDataFiles = Callable[[dict[str, dict[str, bytes]]], dict[str, bytes]]
+"""Makes the dossier-wide data files (dossier.xlsx; {dossier path: bytes}) afresh from
+every method's data files made afresh ({method id: {dossier path: bytes}}, in the
+manifest's order of methods), as the build makes them."""
+
 
 def verify(output: str | Path, *, methods: list[str | Path] | None = None, progress: Callable[[str], None] | None = None,
-           data_files: DataFiles | None = None) -> VerifyReport:
+           data_files: DataFiles | None = None, dossier_data_files: DossierDataFiles | None = None) -> VerifyReport:
     """Check a built dossier against its manifest and ledgers, and every number it shows.
 
     Parameters
@@ -99,7 +85,11 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
         Called with a label before each method is re-computed.
     data_files : callable, optional
         Makes a method's data files afresh (:data:`DataFiles`); with it, every
-        value of results.json and of the CSV tables is compared with the re-computation.
+        value of results.json, of the CSV tables and of the method's workbook is
+        compared with the re-computation.
+    dossier_data_files : callable, optional
+        Makes the dossier-wide data files afresh (:data:`DossierDataFiles`); with
+        it (and ``data_files``), every cell of dossier.xlsx is compared too.
 
     Raises
     ------
@@ -123,6 +113,7 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     mm += _check_fingerprint(out, manifest, texts)
     entries_checked = 0
     fresh: dict[str, Fresh] = {}
+    made: dict[str, dict[str, bytes]] = {}
     for m in manifest.methods:
         found, checked, recomputed = _check_ledger(out, m.id, progress)
         mm += found
@@ -130,8 +121,11 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
         if recomputed is not None:
             fresh[m.id] = recomputed
             if data_files is not None:
-                mm += _check_data_files(out, recomputed, data_files)
-    mm += _check_shown_numbers(out, manifest, fresh, texts)
+                found, made[m.id] = _check_data_files(out, recomputed, data_files)
+                mm += found
+    if dossier_data_files is not None and data_files is not None and len(made) == len(manifest.methods):
+        mm += _compare_files(out, dossier_data_files(made))
+    mm += _check_shown_numbers(out, manifest, fresh, texts, notes)
     mm += _check_sources(out, manifest)
     if methods is not None:
         mm += _check_method_files(manifest, methods)
@@ -173,19 +167,20 @@ def _check_fingerprint(out: Path, manifest: Manifest, texts: _PdfTexts | None = 
             if line not in p.read_text(encoding="utf-8", errors="replace"):
                 mm.append(Mismatch(o.path, "footer", f"does not show this dossier's fingerprint line {line!r}"))
         elif o.path.endswith(".pdf"):
-            for n, text in enumerate((texts or _PdfTexts(out)).of(o.path), start=1):
+            for n, text in enumerate((texts or _PdfTexts(out)).quick(o.path), start=1):
                 if line not in text:
                     mm.append(Mismatch(o.path, f"page {n}", f"does not show this dossier's fingerprint line {line!r}"))
     return mm
 
 
-def pdf_page_texts(path: Path) -> list[str]:
-    """The text of each page of a PDF (pypdf's extraction; an unreadable PDF gives one empty page)."""
+def pdf_page_texts(path: Path, reader: Any = None) -> list[str]:
+    """The text of each page of a PDF (pypdf's extraction, with ``reader`` when one is open;
+    an unreadable PDF gives one empty page)."""
     from pypdf import PdfReader
     from pypdf.errors import PdfReadError
 
     try:
-        return [page.extract_text() or "" for page in PdfReader(path).pages]
+        return [page.extract_text() or "" for page in (reader or PdfReader(path)).pages]
     except (PdfReadError, ValueError, KeyError, TypeError, OSError):
         return [""]
 
@@ -233,24 +228,31 @@ def _check_ledger(out: Path, method_id: str, progress: Callable[[str], None] | N
     for eid, value in recorded.items():
         if eid not in fresh:
             mm.append(Mismatch(rel, eid, "recorded, but the re-computation has no such number"))
-        elif not _close(value, fresh[eid]):
+        elif not close(value, fresh[eid]):
             mm.append(Mismatch(rel, eid, f"recorded {value!r}, re-computed {fresh[eid]!r}"))
     for eid in fresh.keys() - recorded.keys():
         mm.append(Mismatch(rel, eid, "re-computed, but not recorded in the ledger"))
     return mm, len(recorded), Fresh(analysis, fresh, {e.id: e.unit for e in entries})
 
 
-def _check_data_files(out: Path, fresh: Fresh, data_files: DataFiles) -> list[Mismatch]:
-    """results.json and every CSV table of a method, value by value, against the same files made afresh."""
+def _check_data_files(out: Path, fresh: Fresh, data_files: DataFiles) -> tuple[list[Mismatch], dict[str, bytes]]:
+    """results.json, every CSV table and the workbook of a method, value by value, against the
+    same files made afresh; returns the mismatches and the files made afresh."""
     mid = fresh.analysis.method.id
     results = out / LAYOUT.results(mid)
     try:
         published = json.loads(results.read_text(encoding="utf-8"))
         table_sha256 = str(published.get("substance_table_sha256", ""))
     except (OSError, ValueError, AttributeError) as exc:
-        return [Mismatch(LAYOUT.results(mid), "", f"cannot read: {exc}")]
+        return [Mismatch(LAYOUT.results(mid), "", f"cannot read: {exc}")], {}
+    made = data_files(fresh.analysis, table_sha256)
+    return _compare_files(out, made), made
+
+
+def _compare_files(out: Path, made: dict[str, bytes]) -> list[Mismatch]:
+    """Each published data file (JSON, CSV, workbook) value by value against the same file made afresh."""
     mm: list[Mismatch] = []
-    for rel, data in sorted(data_files(fresh.analysis, table_sha256).items()):
+    for rel, data in sorted(made.items()):
         p = out / rel
         if not p.is_file():
             continue  # reported as missing
@@ -260,20 +262,18 @@ def _check_data_files(out: Path, fresh: Fresh, data_files: DataFiles) -> list[Mi
             except ValueError as exc:
                 mm.append(Mismatch(rel, "", f"not JSON any more: {exc}"))
                 continue
-            diffs = compare_json(rel, shown, json.loads(data))
+            mm += compare_json(rel, shown, json.loads(data))
         elif rel.endswith(".csv"):
-            diffs = compare_csv(rel, p.read_text(encoding="utf-8", errors="replace"), data.decode("utf-8"))
+            mm += compare_csv(rel, p.read_text(encoding="utf-8", errors="replace"), data.decode("utf-8"))
         elif rel.endswith(".xlsx"):
-            diffs = compare_workbook(rel, p.read_bytes(), data)
-        else:
-            continue
-        mm += [Mismatch(d.file, d.place, d.message) for d in diffs]
+            mm += compare_workbook(rel, p.read_bytes(), data)
     return mm
 
 
-def _check_shown_numbers(out: Path, manifest: Manifest, fresh: dict[str, Fresh], texts: _PdfTexts) -> list[Mismatch]:
-    """Every number a page links to its ledger entry, every value of a ledger page, and every
-    value of the PDFs' ledger appendices, at the precision shown, against the re-computation."""
+def _check_shown_numbers(out: Path, manifest: Manifest, fresh: dict[str, Fresh], texts: _PdfTexts, notes: list[str]) -> list[Mismatch]:
+    """Every number a page or a PDF's body links to its ledger entry, every value of a ledger
+    page, and every value of the PDFs' ledger appendices, at the precision shown, against the
+    re-computation."""
     by_ledger_page = {LAYOUT.ledger_page(mid): f for mid, f in fresh.items()}
     mm: list[Mismatch] = []
     for o in manifest.outputs:
@@ -286,27 +286,64 @@ def _check_shown_numbers(out: Path, manifest: Manifest, fresh: dict[str, Fresh],
                 if f is None:
                     continue  # a method not re-computed (its ledger is reported)
                 place = f"number linked to {eid}" if ledger_page != o.path else f"ledger row {eid}"
-                if eid not in f.values:
-                    mm.append(Mismatch(o.path, place, f"shows {shown!r} for an entry the re-computation does not have"))
-                elif shown_matches(shown, f.values[eid]) is False:
-                    mm.append(Mismatch(o.path, place, f"shows {shown}, re-computed {f.values[eid]!r}"))
+                mm += _shown(o.path, place, shown, eid, f)
         elif o.path.endswith(".pdf"):
-            mm += _check_pdf_numbers(o.path, texts.of(o.path), fresh)
+            mm += _check_pdf_numbers(o.path, texts, fresh)
+            try:
+                mm += _check_pdf_links(o.path, p, fresh, texts.reader(o.path))
+            except ValueError as exc:
+                mm.append(Mismatch(o.path, "", f"the numbers of its body cannot be read: {exc}"))
+            except PdfTextUnavailable as exc:
+                if not any(n.startswith("the numbers in the body of the PDFs") for n in notes):
+                    notes.append(f"the numbers in the body of the PDFs were not read: {exc} (their ledger appendices were)")
     return mm
 
 
-def _check_pdf_numbers(rel: str, pages: list[str], fresh: dict[str, Fresh]) -> list[Mismatch]:
-    """The ledger appendix of a method PDF, or of each method report bound into the dossier PDF."""
+def _shown(rel: str, place: str, shown: str, eid: str, f: Fresh) -> list[Mismatch]:
+    """A number shown for ledger entry ``eid``, at the precision shown, against the re-computation."""
+    if eid not in f.values:
+        return [Mismatch(rel, place, f"shows {shown!r} for an entry the re-computation does not have")]
+    if shown_matches(shown, f.values[eid]) is False:
+        return [Mismatch(rel, place, f"shows {shown}, re-computed {f.values[eid]!r}")]
+    return []
+
+
+def _check_pdf_numbers(rel: str, texts: _PdfTexts, fresh: dict[str, Fresh]) -> list[Mismatch]:
+    """The ledger appendix of a method PDF, or of each method report bound into the dossier PDF:
+    every entry has its row (the named destination ``METHOD-L-ID``), and each row's value, read
+    from the pages those destinations point to, is the re-computed one at the precision shown."""
     own = LAYOUT.method_of(rel)
     mm: list[Mismatch] = []
-    for n, text in enumerate(pages, start=1):
+    pages = texts.ledger_pages(rel)
+    if pages is not None:
+        anchors = pages[1]
+        for mid, f in fresh.items():
+            if own is not None and mid != own:
+                continue
+            missing = [eid for eid in f.values if f"{mid}-L-{eid}" not in anchors]
+            mm += [Mismatch(rel, f"ledger row {eid}", "missing: the PDF has no ledger row for this entry") for eid in missing]
+    for n, text in (pages[0] if pages is not None else dict(enumerate(texts.of(rel), start=1))).items():
         mid = own if own is not None else next((m for m in fresh if f"{m} · revision" in text), None)
         f = fresh.get(mid) if mid is not None else None
         if f is None:
             continue
         for eid, shown in ledger_lines(text, f.units):
-            if shown_matches(shown, f.values[eid]) is False:
-                mm.append(Mismatch(rel, f"page {n}, ledger row {eid}", f"shows {shown}, re-computed {f.values[eid]!r}"))
+            mm += _shown(rel, f"page {n}, ledger row {eid}", shown, eid, f)
+    return mm
+
+
+def _check_pdf_links(rel: str, path: Path, fresh: dict[str, Fresh], reader: object = None) -> list[Mismatch]:
+    """Every number of a PDF's body that links to its ledger entry (named destination
+    ``METHOD-L-ID``), at the precision shown."""
+    own = LAYOUT.method_of(rel)
+    mm: list[Mismatch] = []
+    for n, dest, shown in pdf_linked_numbers(path, lambda dest: "-L-" in dest, reader):
+        mid = own if own is not None and dest.startswith(f"{own}-L-") else next((m for m in fresh if dest.startswith(f"{m}-L-")), None)
+        f = fresh.get(mid) if mid is not None else None
+        if f is None:
+            continue  # no ledger link, or a method not re-computed (its ledger is reported)
+        eid = dest[len(f"{mid}-L-"):]
+        mm += _shown(rel, f"page {n}, number linked to {eid}", shown, eid, f)
     return mm
 
 
@@ -353,16 +390,64 @@ def pdf_attachments(path: Path) -> dict[str, str]:
 
 
 class _PdfTexts:
-    """The text of each page of each PDF of a dossier, read once per verification."""
+    """The text of the pages of each PDF of a dossier, read once per verification.
+
+    ``quick``: every page, by pdftotext (fast; pypdf's extraction without it), for the
+    fingerprint line. ``of``: every page by pypdf's extraction, whose lines the ledger
+    appendix is parsed from (:func:`~dossier.audit.numbers.ledger_lines`); ``ledger_pages``
+    the same for only the pages the ledger rows' named destinations point to (pypdf's
+    extraction is most of the time ``verify`` spends on PDFs). The open reader of each
+    PDF serves the links of the body too.
+    """
 
     def __init__(self, out: Path) -> None:
         self.out = out
         self.cache: dict[str, list[str]] = {}
+        self.fast: dict[str, list[str]] = {}
+        self.readers: dict[str, Any] = {}
+
+    def reader(self, rel: str) -> Any:
+        """pypdf's reader of a PDF (None when it cannot be opened)."""
+        if rel not in self.readers:
+            from pypdf import PdfReader
+            from pypdf.errors import PdfReadError
+
+            try:
+                self.readers[rel] = PdfReader(self.out / rel)
+            except (PdfReadError, ValueError, KeyError, TypeError, OSError):
+                self.readers[rel] = None
+        return self.readers[rel]
 
     def of(self, rel: str) -> list[str]:
         if rel not in self.cache:
-            self.cache[rel] = pdf_page_texts(self.out / rel)
+            self.cache[rel] = pdf_page_texts(self.out / rel, self.reader(rel))
         return self.cache[rel]
+
+    def quick(self, rel: str) -> list[str]:
+        if rel not in self.fast:
+            exe = shutil.which("pdftotext")
+            try:
+                if exe is None:
+                    raise OSError("no pdftotext")
+                text = subprocess.run([exe, str(self.out / rel), "-"], capture_output=True, timeout=300, check=True).stdout.decode("utf-8", "replace")
+                self.fast[rel] = text.split("\f")[:-1] or [""]
+            except (OSError, subprocess.SubprocessError):
+                self.fast[rel] = self.of(rel)
+        return self.fast[rel]
+
+    def ledger_pages(self, rel: str) -> tuple[dict[int, str], set[str]] | None:
+        """({page number: pypdf's text} of the pages the named destinations ``…-L-…`` point to,
+        every such destination), or None when the destinations cannot be read."""
+        from pypdf.errors import PdfReadError
+
+        r = self.reader(rel)
+        if r is None:
+            return None
+        try:
+            names = {name: r.get_destination_page_number(d) + 1 for name, d in r.named_destinations.items() if "-L-" in name}
+            return {n: r.pages[n - 1].extract_text() or "" for n in sorted(set(names.values()))}, set(names)
+        except (PdfReadError, ValueError, KeyError, TypeError, IndexError, OSError):
+            return None
 
 
 def _check_method_files(manifest: Manifest, methods: list[str | Path]) -> list[Mismatch]:

@@ -80,6 +80,7 @@ def test_build_against_previous_warns_refuses_under_strict_and_shows_the_reasons
     assert "rinse — changed (revision 3 → 4)" in page and reason in page
     assert f"fingerprint <code class=\"hash\">{old_manifest['fingerprint']}</code>, built {old_manifest['build_time']}" in page
     assert "criteria.max_ph_error" in page and "<td class=\"n\">0.02</td>" in page and "<td class=\"n\">0.1</td>" in page
+    assert "<td class=\"n\">+0.08</td><td>pH</td>" in page  # the difference, with its unit
     pdftotext = require_executable("pdftotext", "reads dossier.pdf")
     text = subprocess.run([pdftotext, "-layout", str(tmp_path / "out" / "dossier.pdf"), "-"], capture_output=True, text=True, check=True).stdout
     assert "Changes since the previous revision" in text and reason in text and old_manifest["fingerprint"][:40] in text.replace("\n", "")

@@ -344,3 +344,92 @@ def test_a_workbook_with_a_changed_number_is_caught(copy: Path) -> None:
     forge(copy, rel)
     lines = [str(x) for x in verify(copy).mismatches]
     assert f"{rel}: sheet validity, cell E2: shows {true_low * 2!r}, re-computed {true_low!r}" in lines
+
+
+# ---------------------------------------------------------------- a number in the body of a PDF
+def _to_unicode(font: object) -> dict[str, bytes]:
+    """{character: glyph code} of a composite font, from its ToUnicode map (single codes only)."""
+    import re
+
+    data = font["/ToUnicode"].get_object().get_data().decode("latin-1")  # type: ignore[index]
+    out = {}
+    for block in re.findall(r"beginbfchar(.*?)endbfchar", data, re.S):
+        for code, uni in re.findall(r"<([0-9a-fA-F]+)>\s*<([0-9a-fA-F]{4})>", block):
+            out.setdefault(chr(int(uni, 16)), code.lower().encode())
+    return out
+
+
+def alter_pdf_text(pdf: Path, page_index: int, text: str) -> str:
+    """Re-write the first occurrence of ``text`` on a page of ``pdf`` (glyph codes in the
+    content stream, as an editor of PDFs would) with its last digit changed; return the new text.
+
+    The text is found through each font's ToUnicode map, so a reader (and pdftotext)
+    sees the changed digit; every other byte of the page stays."""
+    import re
+
+    from pypdf import PdfReader, PdfWriter
+    from pypdf.generic import ContentStream
+
+    writer = PdfWriter(clone_from=PdfReader(pdf))
+    page = writer.pages[page_index]
+    content = page.get_contents()
+    assert content is not None
+    data = content.get_data()
+    for font in page["/Resources"]["/Font"].values():
+        codes = _to_unicode(font.get_object())
+        if not all(ch in codes for ch in text):
+            continue
+        pattern = rb"-?[\d.]*".join(b"<" + codes[ch] + b">" for ch in text)
+        hit = re.search(pattern, data, re.I)
+        if hit is None:
+            continue
+        last = text[-1]
+        other = next(d for d in "8321" if d != last and d in codes)
+        changed = hit.group(0)[: -len(codes[last]) - 2] + b"<" + codes[other] + b">"
+        stream = ContentStream(None, writer)
+        stream.set_data(data[: hit.start()] + changed + data[hit.end():])
+        page.replace_contents(stream)
+        with open(pdf, "wb") as fh:
+            writer.write(fh)
+        return text[:-1] + other
+    raise AssertionError(f"{text!r} not found on page {page_index + 1} of {pdf}")
+
+
+@pytest.mark.parametrize("rel", [f"methods/{METHOD}/{METHOD}.pdf", "dossier.pdf"])
+def test_a_number_changed_in_the_body_of_a_pdf_is_caught(copy: Path, rel: str) -> None:
+    """The exact pH as the PDF's body shows it, its glyphs re-written, the PDF's hash forged:
+    verify names the file, page, entry and both values (the ledger appendix is left as it was)."""
+    pdftotext = require_executable("pdftotext", "reads the words of the PDFs with their positions")
+    results = json.loads((copy / "methods" / METHOD / "results.json").read_text(encoding="utf-8"))
+    eid = f"{results['solutions'][0]['id']}/exact/ph"
+    true_ph = results["solutions"][0]["exact"]["ph"]
+    page = (copy / "methods" / METHOD / "index.html").read_text(encoding="utf-8")
+    shown = page.split(f'href="ledger.html#L-{eid}">', 1)[1].split("<", 1)[0]  # the page and the PDF show the same digits
+    texts = subprocess.run([pdftotext, "-layout", str(copy / rel), "-"], capture_output=True, text=True, check=True).stdout.split("\f")
+    index = next(i for i, t in enumerate(texts) if shown in t and "Calculation ledger" not in t)
+    forged = alter_pdf_text(copy / rel, index, shown)
+    after = subprocess.run([pdftotext, "-f", str(index + 1), "-l", str(index + 1), str(copy / rel), "-"], capture_output=True, text=True, check=True).stdout
+    assert forged in after  # a reader sees the forged number
+    rehash(copy, rel)
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert f"{rel}: page {index + 1}, number linked to {eid}: shows {forged}, re-computed {true_ph!r}" in lines, lines
+    assert all(line.startswith(f"{rel}: page {index + 1}, number linked to {eid}") for line in lines), lines
+
+
+def test_a_changed_cell_of_the_dossier_workbook_is_caught(copy: Path) -> None:
+    from openpyxl import load_workbook
+
+    rel = "dossier.xlsx"
+    book = load_workbook(copy / rel)
+    sheet = book["sensitivity"]
+    header = [c.value for c in sheet[1]]
+    column = next(i for i, h in enumerate(header) if isinstance(sheet.cell(2, i + 1).value, float))
+    cell = sheet.cell(2, column + 1)
+    true = cell.value
+    cell.value = true * 2  # exact in binary: the workbook keeps it digit for digit
+    book.save(copy / rel)
+    forge(copy, rel)
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert f"{rel}: sheet sensitivity, cell {cell.coordinate}: shows {true * 2!r}, re-computed {true!r}" in lines
+    others = [line for line in lines if "sheet sensitivity" not in line]
+    assert others and all(".pdf: page " in line and "does not show this dossier's fingerprint line" in line for line in others)  # the seal's forgery held; the PDFs still show the old one
