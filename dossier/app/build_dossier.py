@@ -123,11 +123,15 @@ class BuildOutcome:
     fingerprint: str = ""
 
 
+BUILD_TIME_FORMAT = "%Y-%m-%d %H:%M UTC"
+"""How the build time is written (cover, manifest); read back to date the PDFs' attachments."""
+
+
 def build_time() -> str:
     """The build time: ``SOURCE_DATE_EPOCH`` when set (reproducible builds), else now; UTC."""
     epoch = os.environ.get("SOURCE_DATE_EPOCH")
     moment = datetime.fromtimestamp(int(epoch), tz=timezone.utc) if epoch and epoch.isdigit() else datetime.now(tz=timezone.utc)
-    return moment.strftime("%Y-%m-%d %H:%M UTC")
+    return moment.strftime(BUILD_TIME_FORMAT)
 
 
 def solver_settings(settings: AnalysisSettings, pdf: bool) -> dict[str, Any]:
@@ -375,7 +379,8 @@ def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildCon
         files = {**files, **sources}
         sealed = manifest_of({rel: (hashlib.sha256(data).hexdigest(), len(data)) for rel, data in files.items() if not is_stamped(rel)})
         fingerprint = sealed.fingerprint()
-        stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty), sources)
+        stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty), sources,
+                         datetime.strptime(ctx.info.time, BUILD_TIME_FORMAT).replace(tzinfo=timezone.utc))
     with _timed(timings, "publish"), _as_publish_error(out):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
@@ -405,9 +410,10 @@ def _method_sources(methods: tuple[Method, ...]) -> dict[str, bytes]:
     return out
 
 
-def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes]) -> dict[str, bytes]:
+def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes], built: datetime) -> dict[str, bytes]:
     """Every page with its placeholder replaced by ``line``; every PDF with ``line`` at the
-    foot of each page and its method files attached (a method PDF its own, dossier.pdf all)."""
+    foot of each page and its method files attached (a method PDF its own, dossier.pdf all),
+    dated ``built``."""
     from ..render.binder import stamp_every_page
 
     placeholder, text = STAMP_PLACEHOLDER.encode(), line.encode()
@@ -419,7 +425,7 @@ def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes]) -> dic
         elif rel.endswith(".pdf"):
             mid = LAYOUT.method_of(rel)
             own = {name[s]: sources[s] for s in sources if mid is None or LAYOUT.method_of(s) == mid}
-            out[rel] = stamp_every_page(data, line, attachments=own)
+            out[rel] = stamp_every_page(data, line, attachments=own, modified=built)
         else:
             out[rel] = data
     return out

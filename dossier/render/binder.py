@@ -20,11 +20,15 @@ from __future__ import annotations
 
 import html
 import io
+import logging
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
+from datetime import datetime
 
 from pypdf import PdfReader, PdfWriter
 from pypdf.generic import ArrayObject, NameObject
+
+from . import archival
 
 __all__ = ["BoundReport", "bind", "page_count", "stamp_every_page", "overlay_lines", "LINK_PREFIX", "STAMP_FORMAT", "FOOTER_BOTTOM"]
 
@@ -72,7 +76,8 @@ def bind(front: bytes, reports: Sequence[BoundReport], back: bytes, *, title: st
         The dossier PDF. Same inputs give the same bytes.
     """
     writer = PdfWriter()
-    writer.append(PdfReader(io.BytesIO(front)))
+    front_reader = PdfReader(io.BytesIO(front))
+    writer.append(front_reader)
     n_front = len(writer.pages)
     targets: dict[str, int] = {}
     for r in reports:
@@ -84,6 +89,7 @@ def bind(front: bytes, reports: Sequence[BoundReport], back: bytes, *, title: st
     _resolve_links(writer, list(range(n_front)) + list(range(back_start, len(writer.pages))), targets)
     _stamp(writer)
     writer.add_metadata({"/Title": title, "/Creator": creator, "/Producer": creator})
+    archival.declare(writer, [front, *(r.pdf for r in reports), back, title.encode(), creator.encode()], intents_from=front_reader)
     out = io.BytesIO()
     writer.write(out)
     return out.getvalue()
@@ -147,19 +153,50 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         raise RuntimeError(f"the page stamps took {len(overlay.pages)} pages for {len(lines)} lines")
     for page, over in zip(writer.pages, overlay.pages):
         page.merge_page(over)
+        page.compress_content_streams()  # pypdf leaves a merged page's content uncompressed (4 to 5 times the bytes)
 
 
-def stamp_every_page(pdf: bytes, line: str, *, attachments: Mapping[str, bytes] | None = None, bottom: float = FOOTER_BOTTOM,
-                     size: float = 6.0) -> bytes:
+def stamp_every_page(pdf: bytes, line: str, *, attachments: Mapping[str, bytes] | None = None, modified: datetime | None = None,
+                     bottom: float = FOOTER_BOTTOM, size: float = 6.0) -> bytes:
     """The PDF with ``line`` at the foot of every page (the dossier's fingerprint, say)
-    and ``attachments`` ({file name: bytes}, the method files) embedded as files.
+    and ``attachments`` ({file name: bytes}, the method files) embedded as
+    associated files of the document (:func:`archival.attach`, with
+    ``modified`` as their date), still PDF/A-3b (:func:`archival.declare`).
 
     Same inputs give the same bytes; document information and outline are kept.
     """
-    writer = PdfWriter(clone_from=PdfReader(io.BytesIO(pdf)))
+    writer = _clone(pdf)
     overlay_lines(writer, [line] * len(writer.pages), bottom=bottom, size=size)
     for name, data in sorted((attachments or {}).items()):
-        writer.add_attachment(name, data)
+        archival.attach(writer, name, data, modified=modified)
+    stated = [line.encode(), (modified.isoformat() if modified else "").encode()]
+    archival.declare(writer, [pdf, *stated, *(n.encode() + b"\0" + d for n, d in sorted((attachments or {}).items()))])
+    writer.compress_identical_objects(remove_duplicates=True, remove_unreferenced=True)
     out = io.BytesIO()
     writer.write(out)
     return out.getvalue()
+
+
+class _CloneCount(logging.Filter):
+    """Drops pypdf's "Object count … exceeds defined trailer size" while a PDF is cloned."""
+
+    def filter(self, record: logging.LogRecord) -> bool:
+        return not record.getMessage().startswith("Object count")
+
+
+def _clone(pdf: bytes) -> PdfWriter:
+    """A writer holding a copy of ``pdf`` (catalog, outline, names, metadata, identifier).
+
+    pypdf copies an object that many others refer to from inside direct
+    dictionaries once per reference (the sRGB profile of WeasyPrint's
+    transparency groups, about 90 copies of 2.5 kB in a report), and says
+    so in a warning meant for damaged files; the copies are merged again
+    before writing (``compress_identical_objects``), so the warning is
+    silenced here, for this clone only.
+    """
+    log, quiet = logging.getLogger("pypdf._writer"), _CloneCount()
+    log.addFilter(quiet)
+    try:
+        return PdfWriter(clone_from=PdfReader(io.BytesIO(pdf)))
+    finally:
+        log.removeFilter(quiet)

@@ -146,8 +146,10 @@ def _document(html: str, base: str, files: dict[str, bytes]) -> Any:
 
 
 def _pdf(html: str, base: str, files: dict[str, bytes]) -> bytes:
-    """A PDF from HTML (see :func:`_document`)."""
-    return _document(html, base, files).write_pdf()
+    """A PDF/A-3b from HTML (see :func:`_document` and :mod:`~dossier.render.archival`)."""
+    from .archival import PDF_VARIANT
+
+    return _document(html, base, files).write_pdf(pdf_variant=PDF_VARIANT)
 
 
 def shared_assets() -> dict[str, bytes]:
@@ -233,6 +235,7 @@ def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes]
     contents name dossier pages, so the front matter is laid out again in
     the rare case that its own length differs from the first guess.
     """
+    from .archival import PDF_VARIANT
     from .binder import BoundReport, bind, page_count
 
     lengths = [page_count(reports[a.method.id]) for a in analyses]
@@ -249,8 +252,8 @@ def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes]
         n_front = split
     else:  # pragma: no cover - the length of the front matter does not depend on three-digit page numbers
         raise RuntimeError("the dossier's front matter did not settle to a fixed length")
-    front = doc.copy(doc.pages[:split]).write_pdf()
-    back = doc.copy(doc.pages[split:]).write_pdf()
+    front = doc.copy(doc.pages[:split]).write_pdf(pdf_variant=PDF_VARIANT)
+    back = doc.copy(doc.pages[split:]).write_pdf(pdf_variant=PDF_VARIANT)
     return bind(front, [BoundReport(a.method.id, a.method.title, reports[a.method.id]) for a in analyses], back,
                 title="pH calculation dossier", creator=f"ph-dossier {ctx.info.version}")
 

@@ -1,4 +1,6 @@
-"""The binder on small real PDFs (laid out by WeasyPrint): order, stamps, links, same bytes."""
+"""The binder on small real PDFs (laid out by WeasyPrint as PDF/A-3b, as the build
+lays them out): order, stamps, links, same bytes, still archival after binding,
+stamping and attaching."""
 
 from __future__ import annotations
 
@@ -7,13 +9,15 @@ import io
 import pytest
 from pypdf import PdfReader
 
-from dossier.render.binder import BoundReport, bind, page_count
+from dossier.render.archival import PDF_VARIANT
+from dossier.render.binder import BoundReport, bind, page_count, stamp_every_page
+from tests.pdfa import archival_problems
 
 
-def _pdf(body: str) -> bytes:
+def _pdf(body: str, variant: str | None = PDF_VARIANT) -> bytes:
     from weasyprint import HTML
 
-    return HTML(string=f"<html><body>{body}</body></html>").write_pdf()
+    return HTML(string=f"<html><body>{body}</body></html>").write_pdf(pdf_variant=variant)
 
 
 def _pages(n: int, word: str) -> str:
@@ -58,3 +62,41 @@ def test_a_link_to_a_report_not_bound_is_an_error() -> None:
     front = _pdf('<a href="bind:report/gamma">gamma</a>')
     with pytest.raises(ValueError, match="bind:report/gamma"):
         bind(front, [], _pdf("<p>back</p>"), title="t", creator="c")
+
+
+def test_the_bound_pdf_declares_pdfa_3b_with_its_own_title(parts) -> None:  # noqa: ANN001
+    front, reports, back = parts
+    out = bind(front, reports, back, title="A dossier & co", creator="ph-dossier test")
+    assert archival_problems(out) == []
+    reader = PdfReader(io.BytesIO(out))
+    assert reader.metadata["/Title"] == "A dossier & co"
+    assert b"<rdf:li xml:lang=\"x-default\">A dossier &amp; co</rdf:li>" in reader.trailer["/Root"]["/Metadata"].get_object().get_data()
+
+
+def test_parts_not_laid_out_as_pdfa_are_refused() -> None:
+    with pytest.raises(ValueError, match="output intent"):
+        bind(_pdf("<p>front</p>", None), [], _pdf("<p>back</p>", None), title="t", creator="c")
+
+
+def test_stamping_and_attaching_keeps_the_pdf_archival(parts) -> None:  # noqa: ANN001
+    from datetime import datetime, timezone
+
+    front, reports, back = parts
+    bound = bind(front, reports, back, title="t", creator="c")
+    when = datetime(2026, 1, 1, tzinfo=timezone.utc)
+    files = {"alpha.yaml": b"method:\n  id: alpha\n", "beta.yaml": b"method:\n  id: beta\n"}
+    out = stamp_every_page(bound, "Dossier fingerprint 0123abcd", attachments=files, modified=when)
+    assert archival_problems(out) == []
+    reader = PdfReader(io.BytesIO(out))
+    assert {name: data[0] for name, data in reader.attachments.items()} == files
+    for ef in reader.attachment_list:
+        assert ef.pdf_object["/AFRelationship"] == "/Source" and ef.subtype == "/application/yaml"
+        assert ef.modification_date == when
+    assert all("Dossier fingerprint 0123abcd" in p.extract_text() for p in reader.pages)
+    assert out == stamp_every_page(bound, "Dossier fingerprint 0123abcd", attachments=files, modified=when)
+
+
+def test_the_checker_finds_what_a_plain_pdf_lacks() -> None:
+    """The test helper itself: a PDF not laid out as PDF/A fails it, for the reasons it names."""
+    problems = archival_problems(_pdf("<p>plain</p>", None))
+    assert "no XMP metadata in the catalog" in problems
