@@ -65,7 +65,7 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
     sid, k = sa.spec.id, s.id
     base = f"{sid}/{k}" if s.claimed else f"{sid}/appendix/{k}"
     v = s.validity
-    first = f"total of {sa.spec.components[0].added_as}"
+    first = f"total of {sa.spec.lead_added_as}"
     out = [
         Entry(f"{base}/ph", s.ph, "pH", f"pH by the shortcut {k}, nominal inputs", k, sid),
         Entry(f"{base}/error", s.error, "pH", f"error of {k} (shortcut − exact), nominal inputs", k, sid),
@@ -80,7 +80,7 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
         out.append(Entry(f"{base}/validity_pka/{i}/high", iv.high, "pKa", f"upper end of pKa interval {i + 1}", "validity-brent", sid))
     cu = s.constants_used
     if s.claimed and cu is not None:
-        name = sa.spec.components[0].name
+        name = sa.spec.lead_name
         for j, value in enumerate(cu.pka):
             if value is not None:
                 source = "the procedure's own value" if cu.stated_pka[j] else "the model's value at the working conditions"

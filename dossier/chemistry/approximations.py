@@ -324,8 +324,8 @@ def _at_25_applies(s: Solution) -> str | None:
 
 
 # ---------------------------------------------------------------- which step each shortcut uses
-def _first_step(s: Solution) -> int:
-    return 0
+def _first_step(s: Solution) -> int | None:
+    return 0 if s.components else None  # None: a strong acid or base alone has no pKa
 
 
 def _last_step(s: Solution) -> int:
@@ -615,7 +615,7 @@ class Approximation:
             return (), None
         k = working_constants(solution, self._stated(stated))
         used = set(self.steps(solution))
-        pka = tuple(v if i in used else None for i, v in enumerate(k.pka[0]))
+        pka = tuple(v if i in used else None for i, v in enumerate(k.pka[0] if k.pka else ()))
         return pka, (k.pkw if self.uses_pkw else None)
 
     def partial_ph(self, solution: Solution, stated: StatedConstants | None = None) -> dict[str, Number]:
@@ -706,7 +706,7 @@ def _one(step: Callable[[Solution], int]) -> Callable[[Solution], tuple[int, ...
 
 
 def _all_steps(s: Solution) -> tuple[int, ...]:
-    return tuple(range(s.components[0].protolyte.steps))
+    return tuple(range(s.components[0].protolyte.steps)) if s.components else ()
 
 
 CATALOGUE: dict[str, Approximation] = {
