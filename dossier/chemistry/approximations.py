@@ -43,6 +43,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from ..limits import SALT_EQUAL_AMOUNTS_REL
 from .activity import ActivityModelId
 from .errors import InputRangeError
 from .solver import Equilibrium, equilibrium
@@ -283,8 +284,10 @@ def _salt_applies(s: Solution) -> str | None:
     pair = donor_acceptor(s)
     if isinstance(pair, str):
         return pair
-    if not np.all(_equal_totals(s, *pair)):
-        return "the acid and the base are not in equal amounts (the salt formula holds for the 1:1 salt)"
+    a, b = _np(s.components[pair[0]].total), _np(s.components[pair[1]].total)
+    if np.any(np.abs(a - b) > SALT_EQUAL_AMOUNTS_REL * np.maximum(a, b)):
+        return (f"the acid and the base are not in equal amounts (within {SALT_EQUAL_AMOUNTS_REL:.0%}; "
+                "the salt formula holds for the 1:1 salt)")
     return None
 
 
