@@ -484,6 +484,12 @@ _PKA_KINDS = frozenset({"error-vs-pka", "error-map"})
 """The kinds drawn only for a shortcut that uses a pKa."""
 
 
+def figure_kinds(s: ShortcutAnalysis) -> tuple[str, ...]:
+    """The figure kinds drawn for a claimed shortcut, in page order: every kind,
+    but no pKa figures for a shortcut that uses no pKa (a strong acid or base alone)."""
+    return tuple(k for k in FIGURE_KINDS if s.validity.pka_step is not None or k not in _PKA_KINDS)
+
+
 def draw_figure(kind: str, sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
     """Draw one figure of a claimed shortcut with the dossier's style.
 
@@ -511,9 +517,7 @@ def method_figures(analysis: MethodAnalysis) -> tuple[FigureFile, ...]:
     out = []
     for sa in analysis.solutions:
         for s in sa.shortcuts:
-            for kind in FIGURE_KINDS:
-                if kind in _PKA_KINDS and s.validity.pka_step is None:
-                    continue  # a shortcut that uses no pKa (a strong acid or base alone) has no pKa figures
+            for kind in figure_kinds(s):
                 fig, alt, caption = draw_figure(kind, sa, s, limit)
                 svg, png = figure_bytes(fig)
                 out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, svg, png, alt, caption))
