@@ -121,6 +121,9 @@ def ledger_entries(analysis: MethodAnalysis) -> tuple[Entry, ...]:
             for j, p in enumerate(c.pka):
                 out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/thermodynamic", p.thermodynamic, "pKa", f"pKa{j + 1} of {c.name} at 25 °C and I = 0", "van-t-hoff", sid))
                 out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/at_working_temperature", p.at_working_temperature, "pKa", f"pKa{j + 1} of {c.name} at the working temperature", "van-t-hoff", sid))
+        st = sa.spec.strong_alone
+        if st is not None:
+            out.append(Entry(f"{sid}/strong_{st.kind}/total", st.concentration, "mol/L", f"total of {st.name} ({st.concentration_text} as written)", "unit-conversion", sid))
         e = sa.exact
         mc = sa.monte_carlo.exact
         out += [

@@ -391,6 +391,8 @@ def csv_tables(analysis: MethodAnalysis) -> dict[str, str]:
                 sens_rows += [[sa.spec.id, f"error of {s.id}", c.key, c.label, c.unit, c.u, c.coefficient, c.contribution] for c in s.gum.contributions]
                 names, rows = _sweep_rows(v.concentration_sweep)
                 out[f"{sa.spec.id}-{s.id}-concentration-sweep.csv"] = _csv(["total_mol_per_l", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
+                if v.pka_step is None:  # a shortcut that uses no pKa has no pKa sweep
+                    continue
                 names, rows = _sweep_rows(v.pka_sweep)
                 out[f"{sa.spec.id}-{s.id}-pka-sweep.csv"] = _csv(["pka", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
     out["validity.csv"] = _csv(["solution", "shortcut", "role", "range_of", "low", "high", "robust",
