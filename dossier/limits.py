@@ -13,6 +13,7 @@ from __future__ import annotations
 
 __all__ = [
     "PKA_ENGINE",
+    "SALT_EQUAL_AMOUNTS_REL",
     "PKA_STATED",
     "PKA_CONVERTED",
     "TEMPERATURE",
@@ -112,6 +113,12 @@ VALIDITY_CONCENTRATION_REL_TOLERANCE = 1e-3
 """Relative tolerance to which a validity interval's end is found in concentration (0.1 %)."""
 VALIDITY_PKA_TOLERANCE = 1e-3
 """Tolerance to which a validity interval's end is found in pKa."""
+SALT_EQUAL_AMOUNTS_REL = 0.10
+"""How far apart (relative) the amounts of a weak acid and a weak base may be
+for the salt formula ½(pKa,HA + pKa,BH⁺) to count as the procedure's
+calculation: a 1:1 salt made up within its tolerances, as the uncertainty
+analyses draw it, is still "the salt"; its error there is what they measure
+(a design choice of this tool, no source)."""
 DRAW_TRUNCATION_SIGMAS = 8.0
 """A normal draw is truncated at this many standard uncertainties (the
 probability beyond is below 1e-15), so that no draw leaves the range the

@@ -73,8 +73,9 @@ class MethodBuilder:
     references: dict[str, dict[str, Any]] = field(default_factory=dict)
 
     def solution(self, *components: dict[str, Any], id: str | None = None, shortcuts: list[str] | tuple[str, ...] = (),  # noqa: A002
-                 strong_acid: str | None = None, strong_base: str | None = None) -> MethodBuilder:
-        """Add a solution (id ``s``, ``s2``, ... unless given)."""
+                 strong_acid: str | dict[str, Any] | None = None, strong_base: str | dict[str, Any] | None = None) -> MethodBuilder:
+        """Add a solution (id ``s``, ``s2``, ... unless given); a strong acid or base alone is a mapping
+        ``{concentration, tolerance, working_range, name}``."""
         sol: dict[str, Any] = {"id": id or ("s" if not self.solutions else f"s{len(self.solutions) + 1}"),
                                "components": list(components), "shortcuts": list(shortcuts)}
         if strong_acid:

@@ -52,7 +52,8 @@ class Input:
     kind : InputKind
     component : int or None
         For a pKa or a concentration: the component (for a pKa, the first
-        component of its substance).
+        component of its substance); None for the concentration of a strong
+        acid or base alone (``strong`` says which).
     step : int or None
         For a pKa: the ionization step (0 = first).
     label : str
@@ -72,6 +73,9 @@ class Input:
     targets : tuple of (int, int)
         For a pKa: every (component, step) it belongs to — one substance
         added in two forms has one pKa, not two.
+    strong : str
+        ``acid`` or ``base`` for the concentration of a strong acid or base
+        alone in its solution (it scales the whole solution); empty otherwise.
     """
 
     kind: InputKind
@@ -84,15 +88,16 @@ class Input:
     distribution: Distribution
     half_width: float
     targets: tuple[tuple[int, int], ...] = ()
+    strong: str = ""
 
     @property
     def key(self) -> str:
         """The stable identifier results.json and the tables use: ``pka[0][1]``
-        (component 0, step 2), ``log_c[1]``, ``temperature``, ``background``."""
+        (component 0, step 2), ``log_c[1]``, ``log_c[strong_acid]``, ``temperature``, ``background``."""
         if self.kind in (InputKind.PKA, InputKind.PKA_AT_TEMPERATURE):
             return f"{self.kind}[{self.component}][{self.step}]"
         if self.kind == InputKind.CONCENTRATION:
-            return f"log_c[{self.component}]"
+            return f"log_c[{self.component}]" if self.component is not None else f"log_c[strong_{self.strong}]"
         return str(self.kind)
 
     def draw(self, rng: np.random.Generator, n: int) -> NDArray[np.float64]:
@@ -131,8 +136,10 @@ def variation_from(inputs: tuple[Input, ...], deltas: dict[str, Arr], conditions
             for t in inp.targets:
                 pka_shift[t] = pka_shift.get(t, 0.0) + d
         elif inp.kind == InputKind.CONCENTRATION:
-            assert inp.component is not None
-            total_factor[inp.component] = np.power(10.0, d)
+            if inp.component is None:  # a strong acid or base alone: it is the whole solution
+                scale = scale * np.power(10.0, d)
+            else:
+                total_factor[inp.component] = np.power(10.0, d)
         elif inp.kind == InputKind.TEMPERATURE:
             temperature = temperature + d
         else:
@@ -178,6 +185,12 @@ def inputs_of(spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[Input, ..
         u_log = (rel / root3) / np.log(10.0)  # first order: u(log10 c) = u(c) / (c ln 10)
         out.append(Input(InputKind.CONCENTRATION, k, None, f"concentration of {c.added_as}", "log10(c/(mol/L))",
                          float(np.log10(c.concentration)), float(u_log), Distribution.RECTANGULAR, rel))
+    alone = spec.strong_alone
+    if alone is not None:
+        rel = alone.tolerance / alone.concentration
+        out.append(Input(InputKind.CONCENTRATION, None, None, f"concentration of {alone.name}", "log10(c/(mol/L))",
+                         float(np.log10(alone.concentration)), float((rel / root3) / np.log(10.0)), Distribution.RECTANGULAR, rel,
+                         strong=alone.kind))
     out.append(Input(InputKind.TEMPERATURE, None, None, "temperature", "°C", conditions.temperature,
                      conditions.temperature_tolerance / root3, Distribution.RECTANGULAR, conditions.temperature_tolerance))
     if conditions.background > 0.0 or conditions.background_tolerance > 0.0:

@@ -67,7 +67,7 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
     sid, k = sa.spec.id, s.id
     base = f"{sid}/{k}" if s.claimed else f"{sid}/appendix/{k}"
     v = s.validity
-    first = f"total of {sa.spec.components[0].added_as}"
+    first = f"total of {sa.spec.lead_added_as}"
     out = [
         Entry(f"{base}/ph", s.ph, "pH", f"pH by the shortcut {k}, nominal inputs", k, sid),
         Entry(f"{base}/error", s.error, "pH", f"error of {k} (shortcut − exact), nominal inputs", k, sid),
@@ -82,7 +82,7 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
         out.append(Entry(f"{base}/validity_pka/{i}/high", iv.high, "pKa", f"upper end of pKa interval {i + 1}", "validity-brent", sid))
     cu = s.constants_used
     if s.claimed and cu is not None:
-        name = sa.spec.components[0].name
+        name = sa.spec.lead_name
         for j, value in enumerate(cu.pka):
             if value is not None:
                 source = "the procedure's own value" if cu.stated_pka[j] else "the model's value at the working conditions"
@@ -123,6 +123,9 @@ def ledger_entries(analysis: MethodAnalysis) -> tuple[Entry, ...]:
             for j, p in enumerate(c.pka):
                 out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/thermodynamic", p.thermodynamic, "pKa", f"pKa{j + 1} of {c.name} at 25 °C and I = 0", "van-t-hoff", sid))
                 out.append(Entry(f"{sid}/component/{ci}/pka/{j + 1}/at_working_temperature", p.at_working_temperature, "pKa", f"pKa{j + 1} of {c.name} at the working temperature", "van-t-hoff", sid))
+        st = sa.spec.strong_alone
+        if st is not None:
+            out.append(Entry(f"{sid}/strong_{st.kind}/total", st.concentration, "mol/L", f"total of {st.name} ({st.concentration_text} as written)", "unit-conversion", sid))
         e = sa.exact
         mc = sa.monte_carlo.exact
         out += [

@@ -101,7 +101,7 @@ class RegionResult:
 
 def _errors(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, c: NDArray[np.float64], t: NDArray[np.float64], b: NDArray[np.float64]) -> NDArray[np.float64]:
     """The shortcut's error at points (c, t, b), one engine call."""
-    c0 = spec.components[0].concentration
+    c0 = spec.lead_concentration
     sol = solution_for(spec, conditions, Variation(scale=c / c0, temperature=t, background=b))
     return np.broadcast_to(np.asarray(spec.approximation(approx_id).error(sol), dtype=np.float64), np.shape(c))
 
@@ -127,7 +127,7 @@ def operating_region(approx_id: str, spec: SolutionSpec, conditions: ConditionsS
     -------
     RegionResult
     """
-    lo, hi = spec.components[0].working_range
+    lo, hi = spec.working_range
     t_span = _span(conditions.temperature, conditions.temperature_tolerance, limits.TEMPERATURE[0])
     b_span = _span(conditions.background, conditions.background_tolerance, 0.0)
     cs = np.geomspace(lo, hi, CONCENTRATION_POINTS) if hi > lo else np.array([lo])

@@ -122,7 +122,8 @@ class _Case:
     background: float = 0.0
 
 
-def gum(approx_ids: tuple[str, ...], spec: SolutionSpec, conditions: ConditionsSpec, key_steps: dict[str, tuple[int, int]]) -> tuple[GumResult, dict[str, GumResult]]:
+def gum(approx_ids: tuple[str, ...], spec: SolutionSpec, conditions: ConditionsSpec,
+        key_steps: dict[str, tuple[int, int] | None]) -> tuple[GumResult, dict[str, GumResult]]:
     """GUM propagation for the exact pH and for each shortcut's error.
 
     Parameters
@@ -132,7 +133,8 @@ def gum(approx_ids: tuple[str, ...], spec: SolutionSpec, conditions: ConditionsS
     spec : SolutionSpec
     conditions : ConditionsSpec
     key_steps : dict
-        ``{shortcut id: (component, step)}`` whose pKa the named ∂/∂pKa uses.
+        ``{shortcut id: (component, step)}`` whose pKa the named ∂/∂pKa uses
+        (None: the shortcut uses no pKa, ∂/∂pKa is 0).
 
     Returns
     -------
@@ -168,7 +170,8 @@ def gum(approx_ids: tuple[str, ...], spec: SolutionSpec, conditions: ConditionsS
     exact_cache: dict[tuple[int, int], NDArray[np.float64]] = {}
     for sid in ("", *approx_ids):
         ks = key_steps[sid] if sid else next(iter(key_steps.values()), (0, 0))
-        variation = variation_from(inputs, deltas, conditions, scale=scale, key_shift=(same_substance(spec, *ks), key_shift))
+        targets = same_substance(spec, *ks) if ks is not None else ()
+        variation = variation_from(inputs, deltas, conditions, scale=scale, key_shift=(targets, key_shift))
         variation = replace(variation, background=np.maximum(np.asarray(variation.background) + bg_extra, 0.0))
         sol = solution_for(spec, conditions, variation)
         if ks not in exact_cache:

@@ -144,8 +144,9 @@ class ValidityResult:
         The swept range of the first component's total [mol/L].
     pka_intervals : tuple of Interval
     pka_sweep : Sweep
-    pka_step : (int, int)
-        (component, step) whose pKa is swept (0-based).
+    pka_step : (int, int) or None
+        (component, step) whose pKa is swept (0-based); None for a shortcut
+        that uses no pKa (a strong acid or base alone: empty pKa sweep).
     working_range : (float, float)
         First component's working range [mol/L].
     max_abs_error : float
@@ -174,7 +175,7 @@ class ValidityResult:
     concentration_span: tuple[float, float]
     pka_intervals: tuple[Interval, ...]
     pka_sweep: Sweep
-    pka_step: tuple[int, int]
+    pka_step: tuple[int, int] | None
     working_range: tuple[float, float]
     max_abs_error: float
     max_abs_error_at: float
@@ -228,8 +229,9 @@ def error_at(approx: Approximation, spec: SolutionSpec, conditions: ConditionsSp
     return approx.error(sol)
 
 
-def key_step(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[int, int]:
-    """(component, step) of the pKa a shortcut uses (the catalogue says which): the one its pKa sweep varies."""
+def key_step(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec) -> tuple[int, int] | None:
+    """(component, step) of the pKa a shortcut uses (the catalogue says which): the one its pKa sweep varies;
+    None for a shortcut that uses no pKa (a strong acid or base alone)."""
     return CATALOGUE[approx_id].key_step(solution_for(spec, conditions))
 
 
@@ -247,10 +249,10 @@ def pka_shifts(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, n
 
 
 def concentration_scales(spec: SolutionSpec, n: int) -> NDArray[np.float64]:
-    """Factors that sweep the first component's total over 1e-10 … 10 mol/L
-    (less where another component would pass 10 mol/L)."""
-    c0 = spec.components[0].concentration
-    biggest = max(c.concentration for c in spec.components)
+    """Factors that sweep the first component's total (a strong acid's or base's
+    alone) over 1e-10 … 10 mol/L (less where another component would pass 10 mol/L)."""
+    c0 = spec.lead_concentration
+    biggest = max([c.concentration for c in spec.components] or [c0])
     return np.geomspace(CONCENTRATION_SPAN[0] / c0, min(CONCENTRATION_SPAN[1] / c0, TOTAL_MAX / biggest), n)
 
 
@@ -401,7 +403,7 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
     """
     approx = spec.approximation(approx_id)  # with the procedure's own constants where it states them
     top = activity_model(conditions.activity).max_ionic_strength
-    c0 = spec.components[0].concentration
+    c0 = spec.lead_concentration
     scales = concentration_scales(spec, CONCENTRATION_POINTS)
     exact, err, parts, ionic = _errors(approx, solution_for(spec, conditions, Variation(scale=scales)))
     x_conc = scales * c0
@@ -440,36 +442,43 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
 
     conc_iv = _with_ionic_strength(_clip(_intervals(x_conc, err, parts, limit, refine_conc, refine_parts_conc), conc_allowed), ionic_conc)
 
-    # pKa sweep of the key step (all steps of that substance shifted alike)
-    k, j = key_step(approx_id, spec, conditions)
-    shifts, key, same = pka_shifts(approx_id, spec, conditions, PKA_POINTS)
-    exact_p, err_p, parts_p, ionic_p = _errors(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: shifts for i in same})))
-
-    def ionic_pka(value: NDArray[np.float64] | float) -> NDArray[np.float64]:
-        shift = np.asarray(value, dtype=np.float64) - key
-        return np.asarray(equilibrium(solution_for(spec, conditions, Variation(pka_shift_all={i: shift for i in same}))).ionic_strength, dtype=np.float64)
-
-    def err_pka(value: float) -> float:
-        return float(error_at(approx, spec, conditions, Variation(pka_shift_all={i: value - key for i in same})))
-
-    def refine_pka(a: float, b: float, fa: float, fb: float) -> float:
-        return _crossing(err_pka, a, b, fa, fb, limit, _PKA_TOL)
-
-    def parts_pka(value: float) -> float:
-        return _worst_part(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: value - key for i in same})))
-
-    def refine_parts_pka(a: float, b: float, ga: float, gb: float) -> float:
-        return _crossing(parts_pka, a, b, ga, gb, limit, _PKA_TOL)
-
-    x_pka = key + shifts
-    if top is None:
-        pka_allowed = ((float(x_pka[0]), float(x_pka[-1])),)
+    # pKa sweep of the key step (all steps of that substance shifted alike);
+    # none for a shortcut that uses no pKa (a strong acid or base alone)
+    pka_step = key_step(approx_id, spec, conditions)
+    if pka_step is None:
+        empty = np.zeros(0)
+        pka_iv: tuple[Interval, ...] = ()
+        pka_sweep = Sweep(empty, empty, empty, {}, empty)
     else:
-        pka_allowed = _runs(x_pka, ionic_p <= top, lambda a, b: _level(lambda v: float(ionic_pka(v)), a, b, float(ionic_pka(a)), top, _PKA_TOL))
-    pka_iv = _with_ionic_strength(_clip(_intervals(x_pka, err_p, parts_p, limit, refine_pka, refine_parts_pka), pka_allowed), ionic_pka)
+        shifts, key, same = pka_shifts(approx_id, spec, conditions, PKA_POINTS)
+        exact_p, err_p, parts_p, ionic_p = _errors(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: shifts for i in same})))
+
+        def ionic_pka(value: NDArray[np.float64] | float) -> NDArray[np.float64]:
+            shift = np.asarray(value, dtype=np.float64) - key
+            return np.asarray(equilibrium(solution_for(spec, conditions, Variation(pka_shift_all={i: shift for i in same}))).ionic_strength, dtype=np.float64)
+
+        def err_pka(value: float) -> float:
+            return float(error_at(approx, spec, conditions, Variation(pka_shift_all={i: value - key for i in same})))
+
+        def refine_pka(a: float, b: float, fa: float, fb: float) -> float:
+            return _crossing(err_pka, a, b, fa, fb, limit, _PKA_TOL)
+
+        def parts_pka(value: float) -> float:
+            return _worst_part(approx, solution_for(spec, conditions, Variation(pka_shift_all={i: value - key for i in same})))
+
+        def refine_parts_pka(a: float, b: float, ga: float, gb: float) -> float:
+            return _crossing(parts_pka, a, b, ga, gb, limit, _PKA_TOL)
+
+        x_pka = key + shifts
+        if top is None:
+            pka_allowed = ((float(x_pka[0]), float(x_pka[-1])),)
+        else:
+            pka_allowed = _runs(x_pka, ionic_p <= top, lambda a, b: _level(lambda v: float(ionic_pka(v)), a, b, float(ionic_pka(a)), top, _PKA_TOL))
+        pka_iv = _with_ionic_strength(_clip(_intervals(x_pka, err_p, parts_p, limit, refine_pka, refine_parts_pka), pka_allowed), ionic_pka)
+        pka_sweep = Sweep(x_pka, exact_p, err_p, parts_p, ionic_p, _complement(pka_allowed, float(x_pka[0]), float(x_pka[-1])))
 
     # largest |error| over the working range
-    lo, hi = spec.components[0].working_range
+    lo, hi = spec.working_range
     in_range = (x_conc >= lo) & (x_conc <= hi)
     cands = [(abs(err_conc(np.log10(lo))), lo), (abs(err_conc(np.log10(hi))), hi)]
     if in_range.any():
@@ -490,8 +499,8 @@ def validity(approx_id: str, spec: SolutionSpec, conditions: ConditionsSpec, lim
         concentration_sweep=Sweep(x_conc, exact, err, parts, ionic, _complement(conc_allowed, float(x_conc[0]), float(x_conc[-1]))),
         concentration_span=(float(x_conc[0]), float(x_conc[-1])),
         pka_intervals=pka_iv,
-        pka_sweep=Sweep(x_pka, exact_p, err_p, parts_p, ionic_p, _complement(pka_allowed, float(x_pka[0]), float(x_pka[-1]))),
-        pka_step=(k, j),
+        pka_sweep=pka_sweep,
+        pka_step=pka_step,
         working_range=(lo, hi),
         max_abs_error=float(worst),
         max_abs_error_at=float(where),

@@ -43,6 +43,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from ..limits import SALT_EQUAL_AMOUNTS_REL
 from .activity import ActivityModelId
 from .errors import InputRangeError
 from .solver import Equilibrium, equilibrium
@@ -283,8 +284,10 @@ def _salt_applies(s: Solution) -> str | None:
     pair = donor_acceptor(s)
     if isinstance(pair, str):
         return pair
-    if not np.all(_equal_totals(s, *pair)):
-        return "the acid and the base are not in equal amounts (the salt formula holds for the 1:1 salt)"
+    a, b = _np(s.components[pair[0]].total), _np(s.components[pair[1]].total)
+    if np.any(np.abs(a - b) > SALT_EQUAL_AMOUNTS_REL * np.maximum(a, b)):
+        return (f"the acid and the base are not in equal amounts (within {SALT_EQUAL_AMOUNTS_REL:.0%}; "
+                "the salt formula holds for the 1:1 salt)")
     return None
 
 
@@ -324,8 +327,8 @@ def _at_25_applies(s: Solution) -> str | None:
 
 
 # ---------------------------------------------------------------- which step each shortcut uses
-def _first_step(s: Solution) -> int:
-    return 0
+def _first_step(s: Solution) -> int | None:
+    return 0 if s.components else None  # None: a strong acid or base alone has no pKa
 
 
 def _last_step(s: Solution) -> int:
@@ -615,7 +618,7 @@ class Approximation:
             return (), None
         k = working_constants(solution, self._stated(stated))
         used = set(self.steps(solution))
-        pka = tuple(v if i in used else None for i, v in enumerate(k.pka[0]))
+        pka = tuple(v if i in used else None for i, v in enumerate(k.pka[0] if k.pka else ()))
         return pka, (k.pkw if self.uses_pkw else None)
 
     def partial_ph(self, solution: Solution, stated: StatedConstants | None = None) -> dict[str, Number]:
@@ -706,7 +709,7 @@ def _one(step: Callable[[Solution], int]) -> Callable[[Solution], tuple[int, ...
 
 
 def _all_steps(s: Solution) -> tuple[int, ...]:
-    return tuple(range(s.components[0].protolyte.steps))
+    return tuple(range(s.components[0].protolyte.steps)) if s.components else ()
 
 
 CATALOGUE: dict[str, Approximation] = {

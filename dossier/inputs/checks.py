@@ -44,13 +44,14 @@ from .model import (
     PkaValue,
     ReferenceSpec,
     SolutionSpec,
+    StrongAlone,
 )
 from pydantic import ValidationError
 
 from .forms import FormError, protons_removed
 from .quality import Concern, DataFlag, Quantity, data_flags, farthest_temperature
 from .substances import STATUS_MEANINGS
-from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn
+from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn, StrongIn
 from .substances import Substance, SubstanceTable, TableCompound, TableForm
 from .units import UnitError, format_concentration, parse_concentration, parse_pressure
 from .yamlpos import LoadedYaml
@@ -379,8 +380,9 @@ def _weighed_as(ctx: _Ctx, loc: Loc, comp: ComponentIn, substance: Substance | N
 def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> SolutionSpec | None:
     comps = [_component(ctx, loc + ("components", i), c, refs, conditions, cited) for i, c in enumerate(sol.components)]
     t = conditions.temperature
-    acid = _concentration(ctx, loc + ("strong_acid",), sol.strong_acid, None, t, allow_zero=True) if sol.strong_acid else 0.0
-    base = _concentration(ctx, loc + ("strong_base",), sol.strong_base, None, t, allow_zero=True) if sol.strong_base else 0.0
+    alone = _strong_alone(ctx, loc, sol, t)
+    acid = _strong_amount(ctx, loc + ("strong_acid",), sol.strong_acid, t)
+    base = _strong_amount(ctx, loc + ("strong_base",), sol.strong_base, t)
     ids = [sc.id for sc in sol.shortcuts]
     unknown = False
     for i, sc in enumerate(sol.shortcuts):
@@ -390,10 +392,10 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
             unknown = True
     if len(set(ids)) != len(ids):
         ctx.warn(loc + ("shortcuts",), "a shortcut is listed twice")
-    if any(c is None for c in comps) or acid is None or base is None or unknown:
+    if any(c is None for c in comps) or acid is None or base is None or alone is False or unknown:
         return None
-    first = comps[0]
     for i, comp in enumerate(comps[1:], start=1):
+        first = comps[0]
         ratio_lo = comp.working_range[0] / comp.concentration / (first.working_range[0] / first.concentration)  # type: ignore[union-attr]
         ratio_hi = comp.working_range[1] / comp.concentration / (first.working_range[1] / first.concentration)  # type: ignore[union-attr]
         if abs(ratio_lo - 1) > 0.01 or abs(ratio_hi - 1) > 0.01:
@@ -402,7 +404,7 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
                 "not in proportion to the first component's: the analyses dilute or concentrate the whole solution "
                 "together over the first component's working range",
             )
-    claims = _claims(ctx, loc, sol.shortcuts, comps[0])  # type: ignore[arg-type]
+    claims = _claims(ctx, loc, sol.shortcuts, comps[0] if comps else None)  # type: ignore[arg-type]
     if claims is None:
         return None
     acid_stock = _stock(ctx, loc, "strong_acid", sol.strong_acid_stock, acid, t)
@@ -410,7 +412,7 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
     if acid_stock is False or base_stock is False:
         return None
     spec = SolutionSpec(sol.id, sol.description, tuple(comps), acid, base, tuple(dict.fromkeys(ids)), as_written=claims,  # type: ignore[arg-type]
-                        strong_acid_stock=acid_stock, strong_base_stock=base_stock)  # type: ignore[arg-type]
+                        strong_acid_stock=acid_stock, strong_base_stock=base_stock, strong_alone=alone)  # type: ignore[arg-type]
     try:
         engine_solution = spec.to_solution(conditions)
     except InputRangeError as exc:
@@ -458,7 +460,62 @@ def _warn_flag(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: ConditionsSp
         ctx.warn(here + ("uncertainty",), f"{what} = {value} has no uncertainty (0): its error does not enter the budget; state a standard uncertainty")
 
 
-def _claims(ctx: _Ctx, loc: Loc, shortcuts: list[ShortcutIn], first: ComponentSpec) -> tuple[ClaimedShortcut, ...] | None:
+def _strong_amount(ctx: _Ctx, loc: Loc, value: str | StrongIn | None, temperature: float) -> float | None:
+    """A strong acid's (base's) concentration [mol/L], as text or from its ``{concentration, …}`` (0 when not given)."""
+    if value is None:
+        return 0.0
+    if isinstance(value, StrongIn):
+        return _concentration(ctx, loc + ("concentration",), value.concentration, None, temperature)
+    return _concentration(ctx, loc, value, None, temperature, allow_zero=True)
+
+
+def _strong_alone(ctx: _Ctx, loc: Loc, sol: SolutionIn, temperature: float) -> StrongAlone | None | bool:
+    """The strong acid or base that is the whole solution (None when the solution has
+    components; False after an error). A solution needs components, or exactly one
+    strong acid or base stated with its working range."""
+    given = [(key, v) for key, v in (("strong_acid", sol.strong_acid), ("strong_base", sol.strong_base)) if v is not None]
+    if sol.components:
+        ok = True
+        for key, v in given:
+            if isinstance(v, StrongIn):
+                ctx.add(loc + (key,), "tolerance, working_range and name are for a strong acid or base alone in its solution; "
+                                      "beside components, give the concentration as text (e.g. '10 mmol/L'): the analyses scale it with the first component")
+                ok = False
+        return None if ok else False
+    if not given:
+        ctx.add(loc + ("components",), "the solution holds nothing: give its components, or a strong acid or base alone "
+                                       "(strong_acid: {concentration, tolerance, working_range})")
+        return False
+    if len(given) > 1:
+        ctx.add(loc + ("strong_base",), "a solution without components holds a strong acid or a strong base, not both (they neutralize each other to a salt)")
+        return False
+    key, v = given[0]
+    kind = "acid" if key == "strong_acid" else "base"
+    if not isinstance(v, StrongIn):
+        ctx.add(loc + (key,), f"alone in its solution (no components), the strong {kind} needs its working range: write "
+                              f"{key}: {{concentration: {v}, tolerance: 2 %, working_range: [low, high]}}")
+        return False
+    if sol.adjusted_to is not None:
+        ctx.add(loc + ("adjusted_to",), f"needs a weak acid–base component to adjust; for a strong {kind} alone, state its concentration")
+        return False
+    here = loc + (key,)
+    conc = _concentration(ctx, here + ("concentration",), v.concentration, None, temperature)
+    lo = _concentration(ctx, here + ("working_range", 0), v.working_range[0], None, temperature)
+    hi = _concentration(ctx, here + ("working_range", 1), v.working_range[1], None, temperature)
+    tol = _tolerance(ctx, here + ("tolerance",), v.tolerance, conc, None, temperature) if conc is not None else None
+    if None in (conc, lo, hi, tol):
+        return False
+    assert conc is not None and lo is not None and hi is not None and tol is not None
+    if lo >= hi:
+        ctx.add(here + ("working_range",), f"the working range must go from low to high; got {v.working_range[0]!r} to {v.working_range[1]!r}")
+        return False
+    if not lo * (1 - 1e-12) <= conc <= hi * (1 + 1e-12):
+        ctx.add(here + ("working_range",), f"working range {format_concentration(lo)} … {format_concentration(hi)} does not contain the nominal concentration {format_concentration(conc)}")
+        return False
+    return StrongAlone(kind, v.name or f"strong {kind}", conc, v.concentration, tol, v.tolerance or "", (lo, hi), (v.working_range[0], v.working_range[1]))
+
+
+def _claims(ctx: _Ctx, loc: Loc, shortcuts: list[ShortcutIn], first: ComponentSpec | None) -> tuple[ClaimedShortcut, ...] | None:
     """The claims that state the procedure's own constants (``as_written:``), checked:
     one pKa per step of the first component, each within the limits of a
     stated pKa, pKw within the limits of an override, only for a formula.
@@ -476,9 +533,13 @@ def _claims(ctx: _Ctx, loc: Loc, shortcuts: list[ShortcutIn], first: ComponentSp
             ctx.add(here, f"{sc.id} is the exact solution with one assumption changed, not a formula: it has no constants of its own to state")
             ok = False
             continue
-        steps = len(first.pka)
+        steps = len(first.pka) if first is not None else 0
         pka: tuple[float | None, ...] = ()
         if aw.pka is not None:
+            if first is None:
+                ctx.add(here + ("pka",), "the solution has no weak component: there is no pKa to state")
+                ok = False
+                continue
             if len(aw.pka) != steps:
                 ctx.add(here + ("pka",), f"{len(aw.pka)} value(s) for {first.name}, which has {steps} ionization step(s): give one per step, null for the model's value")
                 ok = False
@@ -531,18 +592,20 @@ def _within_model_range(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: Con
     solution scaled with the first component, solved by the engine) against
     the activity model's range; the working range against the solubility of
     each component's form. False when refused."""
-    first = spec.components[0]
-    lo, hi = first.working_range
+    lo, hi = spec.working_range
+    lead = spec.lead_concentration
+    lead_loc: Loc = (f"strong_{spec.strong_alone.kind}",) if spec.strong_alone is not None else ("components", 0)
+    top_loc = loc + lead_loc + ("working_range", 1)
     ok = True
     if not _background_beyond_range(conditions):
         try:
-            ionic = float(equilibrium(spec.to_solution(conditions, scale=hi / first.concentration)).ionic_strength)
+            ionic = float(equilibrium(spec.to_solution(conditions, scale=hi / lead)).ionic_strength)
         except ChemistryError as exc:
-            ctx.add(loc + ("components", 0, "working_range", 1), f"cannot be solved at the working range's upper end: {exc}")
+            ctx.add(top_loc, f"cannot be solved at the working range's upper end: {exc}")
             return False
-        ok = _range_problem(ctx, loc + ("components", 0, "working_range", 1), f"at the working range's upper end ({format_concentration(hi)}) the ionic strength is", ionic, conditions)
+        ok = _range_problem(ctx, top_loc, f"at the working range's upper end ({format_concentration(hi)}) the ionic strength is", ionic, conditions)
     for k, comp in enumerate(spec.components):
-        top = comp.concentration * hi / first.concentration
+        top = comp.concentration * hi / lead
         if comp.solubility is not None and top > comp.solubility:
             ctx.warn(loc + ("components", k, "working_range", 1),
                      f"the working range goes to {format_concentration(top)}, above the solubility of {comp.compound} in water at 25 °C "

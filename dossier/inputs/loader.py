@@ -235,10 +235,70 @@ def _message(err: dict[str, Any]) -> str:
     return err["msg"]  # pragma: no cover - every kind the schema can raise is handled above
 
 
-def _type_problems(exc: ValidationError, doc: LoadedYaml, path: str) -> list[Problem]:
+def _union_members(annotation: Any) -> list[Any]:
+    """The members of a union of two or more types (None left out), else []."""
+    def flat(a: Any) -> list[Any]:
+        while typing.get_origin(a) is typing.Annotated:
+            a = typing.get_args(a)[0]
+        if typing.get_origin(a) in (typing.Union, getattr(__import__("types"), "UnionType", None)):
+            return [m for arg in typing.get_args(a) if arg is not type(None) for m in flat(arg)]
+        return [a]
+
+    members = flat(annotation)
+    return members if len(members) > 1 else []
+
+
+def _untagged(loc: Loc, data: Any) -> Loc | None:
+    """The error's location without pydantic's union-member tags, or None when the
+    error belongs to a member the data does not use (a mapping uses the model
+    whose keys it has, :func:`_union_model_for`; any other value the non-model members)."""
+    current: Any = MethodFile
+    value = data
+    out: list[str | int] = []
+    i = 0
+    while i < len(loc):
+        members = _union_members(current)
+        if members and isinstance(loc[i], str):
+            models = [m for m in members if isinstance(m, type) and issubclass(m, BaseModel)]
+            chosen = max(models, key=lambda m: sum(k in m.model_fields for k in value)) if isinstance(value, dict) and models else None
+            if chosen is not None:
+                if loc[i] != chosen.__name__:
+                    return None
+                current = chosen
+            elif loc[i] in {m.__name__ for m in models}:
+                return None
+            else:
+                current = next((m for m in members if m not in models), members[0])
+            i += 1
+            continue
+        part = loc[i]
+        ann = _unwrap(current)
+        origin = typing.get_origin(ann)
+        if isinstance(ann, type) and issubclass(ann, BaseModel) and isinstance(part, str):
+            info = ann.model_fields.get(part) or next((f for f in ann.model_fields.values() if f.alias == part), None)
+            current = info.annotation if info is not None else Any
+            value = value.get(part) if isinstance(value, dict) else None
+        elif origin in (list, tuple) and isinstance(part, int):
+            current = typing.get_args(ann)[0]
+            value = value[part] if isinstance(value, list) and part < len(value) else None
+        elif origin is dict:
+            current = typing.get_args(ann)[1]
+            value = value.get(part) if isinstance(value, dict) else None
+        else:
+            current = Any
+            value = None
+        out.append(part)
+        i += 1
+    return tuple(out)
+
+
+def _type_problems(exc: ValidationError, doc: LoadedYaml, path: str, data: Any = None) -> list[Problem]:
     out = []
     for err in exc.errors(include_url=False):
-        loc: Loc = tuple(err["loc"])
+        loc: Loc | None = _untagged(tuple(err["loc"]), data)
+        if loc is None:
+            continue
+        err = {**err, "loc": loc}
         pos = doc.where(loc[:-1] if err["type"] == "missing" else loc)
         out.append(Problem(path, pos.line, pos.column, dotted(loc), _message(err)))
     return out
@@ -299,7 +359,7 @@ def load_method_bytes(raw: bytes, name: str, *, table: SubstanceTable | None = N
     try:
         mf = MethodFile.model_validate(data)
     except ValidationError as exc:
-        problems.extend(_type_problems(exc, doc, name))
+        problems.extend(_type_problems(exc, doc, name, data))
         problems.extend(check_valid_parts(name, data, doc, table))
         return MethodLoad(name, None, tuple(problems))
     method, more = build_method(name, sha, mf, doc, table)

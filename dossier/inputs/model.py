@@ -20,6 +20,7 @@ __all__ = [
     "ComponentSpec",
     "SolutionSpec",
     "AdjustmentSpec",
+    "StrongAlone",
     "ClaimedShortcut",
     "ConditionsSpec",
     "Criteria",
@@ -249,6 +250,37 @@ class AdjustmentSpec:
     stock_text: str | None = None
 
 @dataclass(frozen=True)
+class StrongAlone:
+    """A strong acid or base that stands alone in its solution (no weak component).
+
+    Attributes
+    ----------
+    kind : str
+        ``acid`` or ``base``.
+    name : str
+        For people: as the method file names it, else ``strong acid`` / ``strong base``.
+    concentration : float
+        Nominal concentration [mol/L] (the solution's ``strong_acid`` or ``strong_base``).
+    concentration_text : str
+    tolerance : float
+        Half-width of a rectangular distribution [mol/L].
+    tolerance_text : str
+    working_range : (float, float)
+        [mol/L]; the analyses dilute or concentrate the solution over it.
+    working_range_text : (str, str)
+    """
+
+    kind: str
+    name: str
+    concentration: float
+    concentration_text: str
+    tolerance: float
+    tolerance_text: str
+    working_range: tuple[float, float]
+    working_range_text: tuple[str, str]
+
+
+@dataclass(frozen=True)
 class ClaimedShortcut:
     """A shortcut the procedure relies on, and the constants its own calculation uses.
 
@@ -290,6 +322,29 @@ class SolutionSpec:
     """Stock the stated strong acid is measured from [mol/L] (``strong_acid_stock:``), None when not stated."""
     strong_base_stock: float | None = None
     """Stock the stated strong base is measured from [mol/L] (``strong_base_stock:``), None when not stated."""
+    strong_alone: StrongAlone | None = None
+    """The strong acid or base when it is the whole solution (no components), with its tolerance and working range."""
+
+    @property
+    def lead_concentration(self) -> float:
+        """Concentration [mol/L] that sets the scale of the whole solution: the first
+        component's, or the strong acid's (base's) when it stands alone."""
+        return self.strong_alone.concentration if self.strong_alone is not None else self.components[0].concentration
+
+    @property
+    def working_range(self) -> tuple[float, float]:
+        """[mol/L] of the lead (:attr:`lead_concentration`): the range the analyses sweep the whole solution over."""
+        return self.strong_alone.working_range if self.strong_alone is not None else self.components[0].working_range
+
+    @property
+    def lead_name(self) -> str:
+        """The lead substance's name for people (``acetic acid``, ``hydrochloric acid``)."""
+        return self.strong_alone.name if self.strong_alone is not None else self.components[0].name
+
+    @property
+    def lead_added_as(self) -> str:
+        """What is weighed or measured out for the lead (:attr:`ComponentSpec.added_as`, or the strong acid's name)."""
+        return self.strong_alone.name if self.strong_alone is not None else self.components[0].added_as
 
     @property
     def claims(self) -> tuple[ClaimedShortcut, ...]:

@@ -28,6 +28,7 @@ __all__ = [
     "Co2Closed",
     "SolutionIn",
     "AdjustedTo",
+    "StrongIn",
     "ComponentIn",
     "PkaIn",
     "ShortcutIn",
@@ -251,6 +252,26 @@ class AdjustedTo(_Model):
     stock: ConcentrationText | None = Field(None, description="Concentration of the titrant stock, with unit, for the volume per litre (optional).")
 
 
+class StrongIn(_Model):
+    """A strong acid or base that stands alone in its solution (no weak component):
+    its concentration, tolerance and the working range the analyses sweep."""
+
+    concentration: ConcentrationText = Field(description="Nominal concentration of the strong acid (base), with unit (mol/L, mmol/L, µmol/L).")
+    tolerance: str | None = Field(
+        None, min_length=1, max_length=100,
+        description="Half-width of the allowed concentration range, as a concentration with unit or a percentage ('2 %'); rectangular distribution.",
+    )
+    working_range: list[ConcentrationText] = Field(
+        min_length=2, max_length=2, description="[lowest, highest] concentration the method covers.",
+    )
+    name: ShortText | None = Field(None, description="What it is, for the report (e.g. 'hydrochloric acid'); default 'strong acid' or 'strong base'.")
+
+
+StrongText = Annotated[ConcentrationText | StrongIn, Field(description=(
+    "With unit (e.g. '10 mmol/L'); or, for a solution of a strong acid or base alone (no components), "
+    "{concentration, tolerance, working_range, name}."))]
+
+
 class AsWrittenIn(_Model):
     """The constants the procedure's own calculation puts into the shortcut."""
 
@@ -288,9 +309,16 @@ class SolutionIn(_Model):
 
     id: Identifier = Field(description=f"Solution identifier, unique in the method: {ID_RULE}.")
     description: str = Field("", max_length=2000, description="What the solution is, in words.")
-    components: list[ComponentIn] = Field(min_length=1, max_length=10, description="The substances dissolved.")
-    strong_acid: ConcentrationText | None = Field(None, description="Added strong acid (e.g. HCl), with unit.")
-    strong_base: ConcentrationText | None = Field(None, description="Added strong base (e.g. NaOH), with unit.")
+    components: list[ComponentIn] = Field(
+        default_factory=list, max_length=10,
+        description="The weak acid–base substances dissolved; may be left out when the solution holds only a strong acid or base.",
+    )
+    strong_acid: StrongText | None = Field(
+        None, description="Added strong acid (e.g. HCl): a concentration with unit, or alone in the solution {concentration, tolerance, working_range, name}.",
+    )
+    strong_base: StrongText | None = Field(
+        None, description="Added strong base (e.g. NaOH): a concentration with unit, or alone in the solution {concentration, tolerance, working_range, name}.",
+    )
     shortcuts: list[ShortcutItem] = Field(
         min_length=1, max_length=12,
         description="The shortcuts the SOP relies on (see docs/calculations.md): each a plain id, or "

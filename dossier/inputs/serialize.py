@@ -11,7 +11,7 @@ from dataclasses import asdict
 from typing import Any
 
 from ..chemistry import StatedConstants
-from .model import AdjustmentSpec, ClaimedShortcut, ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
+from .model import AdjustmentSpec, ClaimedShortcut, StrongAlone, ComponentSpec, ConditionsSpec, Criteria, Method, PkaValue, ReferenceSpec, SolutionSpec
 
 __all__ = ["method_to_dict", "method_from_dict"]
 
@@ -42,6 +42,11 @@ def _solution(d: dict[str, Any]) -> SolutionSpec:
     if d.get("adjustment") is not None:
         d["adjustment"] = AdjustmentSpec(**d["adjustment"])
     d["as_written"] = tuple(_claim(c) for c in d.get("as_written", ()))
+    if d.get("strong_alone") is not None:
+        st = dict(d["strong_alone"])
+        st["working_range"] = tuple(st["working_range"])
+        st["working_range_text"] = tuple(st["working_range_text"])
+        d["strong_alone"] = StrongAlone(**st)
     return SolutionSpec(**d)
 
 

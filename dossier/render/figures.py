@@ -325,13 +325,13 @@ def _error_vs_concentration(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: fl
         color, ls, _ = SERIES[n % len(SERIES)]
         ax.plot(sw.x, values, color=PALETTE[color], ls=ls, lw=1.0, label=f"part: {name}")
     ax.plot(sw.x, sw.error, color=PALETTE["blue"], lw=1.8, label=f"{s.id} − exact")
-    c0 = sa.spec.components[0].concentration
+    c0 = sa.spec.lead_concentration
     ax.plot([c0], [s.error], marker="o", ms=7, mfc="white", mec=PALETTE["ink"], mew=1.5, ls="none", label="nominal", zorder=5)
     ax.set_xscale("log")
     _log_axis(ax.xaxis)
     _plain_axis(ax.yaxis)
     ax.set_ylim(*_ylim(limit, v.max_abs_error))
-    ax.set_xlabel(f"total concentration of {_short(sa.spec.components[0].name)} (whole solution scaled) / (mol/L)")
+    ax.set_xlabel(f"total concentration of {_short(sa.spec.lead_name)} (whole solution scaled) / (mol/L)")
     ax.set_ylabel("error, shortcut pH − exact pH")
     ax.set_title(f"{sa.spec.id}: {s.title}")
     _arrange(fig, below=_legend_below(fig, ax))
@@ -392,7 +392,7 @@ def _error_map(sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple
     comp, step = s.validity.pka_step
     _plain_axis(ax.xaxis)
     _plain_axis(ax.yaxis)
-    ax.set_xlabel(f"log10(total of {_short(sa.spec.components[0].name)} / (mol/L))")
+    ax.set_xlabel(f"log10(total of {_short(sa.spec.lead_name)} / (mol/L))")
     ax.set_ylabel(f"pKa{step + 1} (25 °C, I = 0)")
     ax.set_title(f"{sa.spec.id}: {s.id}, error map (solid +{limit:g}, dashed {MINUS}{limit:g})")
     ax.grid(False)
@@ -480,6 +480,14 @@ _KINDS = {
 }
 FIGURE_KINDS = tuple(_KINDS)
 """The figure kinds drawn for every claimed shortcut, in page order."""
+_PKA_KINDS = frozenset({"error-vs-pka", "error-map"})
+"""The kinds drawn only for a shortcut that uses a pKa."""
+
+
+def figure_kinds(s: ShortcutAnalysis) -> tuple[str, ...]:
+    """The figure kinds drawn for a claimed shortcut, in page order: every kind,
+    but no pKa figures for a shortcut that uses no pKa (a strong acid or base alone)."""
+    return tuple(k for k in FIGURE_KINDS if s.validity.pka_step is not None or k not in _PKA_KINDS)
 
 
 def draw_figure(kind: str, sa: SolutionAnalysis, s: ShortcutAnalysis, limit: float) -> tuple[Figure, str, str]:
@@ -509,7 +517,7 @@ def method_figures(analysis: MethodAnalysis) -> tuple[FigureFile, ...]:
     out = []
     for sa in analysis.solutions:
         for s in sa.shortcuts:
-            for kind in FIGURE_KINDS:
+            for kind in figure_kinds(s):
                 fig, alt, caption = draw_figure(kind, sa, s, limit)
                 svg, png = figure_bytes(fig)
                 out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, svg, png, alt, caption))

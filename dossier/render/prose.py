@@ -110,6 +110,8 @@ def _composition(spec: SolutionSpec) -> str:
         else f"{c.added_as}: {format_concentration(c.concentration)}"
         for c in spec.components
     ]
+    if spec.strong_alone is not None:
+        return f"{spec.strong_alone.name} {format_concentration(spec.strong_alone.concentration)}"
     if spec.strong_acid:
         parts.append(f"strong acid {format_concentration(spec.strong_acid)}")
     if spec.strong_base:
@@ -145,7 +147,7 @@ def justification(method: Method, sa: SolutionAnalysis, s: ShortcutAnalysis) -> 
     text = (
         f"The pH of solution '{spec.id}' ({_composition(spec)}, {plain(c.temperature)} °C) is calculated in the procedure by "
         f"the shortcut '{approx.title}' ({approx.id}). Compared with the exact solution of the charge and mass balances "
-        f"(activity model {c.activity}; {pkas}), which gives {_exact_result(v)}, the shortcut's error at the nominal "
+        f"(activity model {c.activity}{'; ' + pkas if pkas else ''}), which gives {_exact_result(v)}, the shortcut's error at the nominal "
         f"composition is {signed(v.nominal_error)} pH against the acceptance limit of ±{plain(v.limit)} pH. Over the operating "
         f"region the method allows ({_region(r)}) its largest magnitude is {fixed(abs(r.worst.error))} pH, at {_point(r.worst, r)}. "
         f"Decision rule: {RULE_WORDS}. With the uncertainty of the true pH from the inputs and from the activity model "

@@ -19,7 +19,7 @@ from ..analysis.sensitivity import GumResult
 from ..analysis.region import RegionPoint
 from ..analysis.validity import Interval, Sweep
 from ..analysis.verdicts import Verdict
-from ..inputs.model import Method
+from ..inputs.model import Method, StrongAlone
 from ..chemistry.activity import BATES_GUGGENHEIM_BA, DAVIES_COEFFICIENT
 from ..chemistry.solver import TOLERANCE
 from .prose import prose
@@ -130,6 +130,20 @@ def _decision(v: Verdict) -> dict[str, Any]:
     }
 
 
+def _strong_alone(st: StrongAlone | None) -> dict[str, Any] | None:
+    """The strong acid or base that is the whole solution, with its tolerance and working range (None otherwise)."""
+    if st is None:
+        return None
+    return {
+        "kind": st.kind,
+        "name": st.name,
+        "total_mol_per_l": st.concentration,
+        "total_as_written": st.concentration_text,
+        "tolerance_mol_per_l": st.tolerance,
+        "working_range_mol_per_l": list(st.working_range),
+    }
+
+
 def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis, method: Method) -> dict[str, Any]:
     v = s.validity
     out: dict[str, Any] = {
@@ -143,7 +157,7 @@ def _shortcut(sa: SolutionAnalysis, s: ShortcutAnalysis, method: Method) -> dict
         "validity_total_swept_mol_per_l": list(v.concentration_span),
         "validity_pka": _intervals(v.pka_intervals),
         "validity_pka_robust": [iv.robust for iv in v.pka_intervals],
-        "validity_pka_step": {"component": v.pka_step[0], "step": v.pka_step[1] + 1},
+        "validity_pka_step": {"component": v.pka_step[0], "step": v.pka_step[1] + 1} if v.pka_step is not None else None,
         "validity_total_intervals": _interval_objects(v.concentration_intervals),
         "validity_pka_intervals": _interval_objects(v.pka_intervals),
         "model_range": {
@@ -246,6 +260,7 @@ def _solution(sa: SolutionAnalysis, analysis: MethodAnalysis) -> dict[str, Any]:
         ],
         "strong_acid_mol_per_l": spec.strong_acid,
         "strong_base_mol_per_l": spec.strong_base,
+        "strong_alone": _strong_alone(spec.strong_alone),
         "exact": {
             "ph": sa.exact.ph,
             "ph_conc": sa.exact.ph_conc,
@@ -447,6 +462,8 @@ def csv_tables(analysis: MethodAnalysis) -> dict[str, str]:
                 sens_rows += [[sa.spec.id, f"error of {s.id}", c.key, c.label, c.unit, c.u, c.coefficient, c.contribution] for c in s.gum.contributions]
                 names, rows = _sweep_rows(v.concentration_sweep)
                 out[f"{sa.spec.id}-{s.id}-concentration-sweep.csv"] = _csv(["total_mol_per_l", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
+                if v.pka_step is None:  # a shortcut that uses no pKa has no pKa sweep
+                    continue
                 names, rows = _sweep_rows(v.pka_sweep)
                 out[f"{sa.spec.id}-{s.id}-pka-sweep.csv"] = _csv(["pka", "exact_ph", "error"] + [f"error_part: {n}" for n in names], rows)
     out["validity.csv"] = _csv(["solution", "shortcut", "role", "range_of", "low", "high", "robust",

@@ -53,10 +53,32 @@ def verdicts(a) -> dict[str, str]:  # noqa: ANN001
         ("glycine-diluent", {"ampholyte-mean": "fail"}),
         ("tris-buffer-37c", {"henderson-hasselbalch": "fail", "constants-at-25c": "fail"}),
         ("saline-phosphate-buffer", {"henderson-hasselbalch": "fail", "ideal-activity": "fail"}),
+        # the method holds two solutions, and the verdicts of both are listed by shortcut:
+        # ammonium acetate open to air: carbonic acid pulls the poorly buffered salt
+        # about 0.19 below ½(pKa,HA + pKa,BH⁺); formate at 1 mmol/L: Henderson–Hasselbalch
+        # errs by −0.11 (the acid's own dissociation at that dilution)
+        ("lcms-mobile-phases", {"weak-acid-weak-base-salt": "fail", "henderson-hasselbalch": "fail"}),
+        # a strong acid alone: −log C errs by the activity coefficient only (−0.016 at 1 mmol/L)
+        ("hydrochloric-acid-rinse", {"strong-acid": "pass"}),
     ],
 )
 def test_demo_verdicts(name: str, expected: dict[str, str]) -> None:
     assert verdicts(demo(name)) == expected
+
+
+def test_demo_dihydrogen_phosphate_and_adjusted_acetate() -> None:
+    # 10 mmol/L dihydrogen phosphate: the ampholyte mean ½(pKa1 + pKa2) = 4.67 errs
+    # by about −0.05 (at this dilution pKa1's dissociation is not negligible); the
+    # acetate adjusted to pH 4.75 with sodium hydroxide reaches the target by the
+    # exact model, and the volume Henderson–Hasselbalch prescribes gives less.
+    a = demo("phosphate-acetate-diluents")
+    by = {sa.spec.id: sa for sa in a.solutions}
+    amp = by["dihydrogen-phosphate"].shortcuts[0]
+    assert amp.id == "ampholyte-mean" and amp.error < -0.03 and amp.verdict.status == "fail"
+    adj = by["acetate-buffer"].adjustment
+    assert adj is not None and abs(by["acetate-buffer"].exact.ph - 4.75) < 1e-6
+    assert adj.shortcut_amount_mol_per_l < adj.amount_mol_per_l and adj.shortcut_recipe_ph < 4.75
+    assert adj.volume_ml_per_l == pytest.approx(adj.amount_mol_per_l * 1000.0)
 
 
 def test_restricted_range_states_the_part_of_the_working_range() -> None:
