@@ -37,7 +37,7 @@ from matplotlib.transforms import Bbox
 from dossier.analysis.method import AnalysisSettings, analyse_method
 from dossier.inputs.loader import load_method
 from dossier.inputs.substances import load_table
-from dossier.render.figures import FIGURE_KINDS, draw_figure, figure_bytes
+from dossier.render.figures import FIGURE_KINDS, draw_figure, figure_svg
 
 DEMO = sorted((Path(__file__).resolve().parents[2] / "methods").glob("*.yaml"))
 SVG_NS = "{http://www.w3.org/2000/svg}"
@@ -71,7 +71,7 @@ def drawn(request: pytest.FixtureRequest) -> Iterator[list[Drawn]]:
         for s in sa.shortcuts:
             for kind in FIGURE_KINDS:
                 fig, _, _ = draw_figure(kind, sa, s, limit)
-                svg, _ = figure_bytes(fig)  # closes the figure in pyplot: draw it again on a canvas of its own
+                svg = figure_svg(fig)  # closes the figure in pyplot: draw it again on a canvas of its own
                 FigureCanvasAgg(fig).draw()
                 out.append(Drawn(f"{request.param.stem}/{sa.spec.id}/{s.id}/{kind}", fig, svg))
     assert {d.name.rsplit("/", 1)[1] for d in out} == set(FIGURE_KINDS)
