@@ -7,7 +7,7 @@ import io
 import pytest
 from pypdf import PdfReader
 
-from dossier.render.binder import BoundReport, bind, page_count
+from dossier.render.binder import BoundReport, bind, page_count, stamp_every_page
 
 
 def _pdf(body: str) -> bytes:
@@ -58,3 +58,17 @@ def test_a_link_to_a_report_not_bound_is_an_error() -> None:
     front = _pdf('<a href="bind:report/gamma">gamma</a>')
     with pytest.raises(ValueError, match="bind:report/gamma"):
         bind(front, [], _pdf("<p>back</p>"), title="t", creator="c")
+
+
+def test_a_page_stamped_twice_keeps_both_lines_and_a_repeated_line_is_stored_once(parts) -> None:  # noqa: ANN001
+    """dossier.pdf is stamped twice (page numbers, then the fingerprint); each stamp draws a form XObject of its own."""
+    front, reports, back = parts
+    bound = bind(front, reports, back, title="t", creator="c")
+    out = stamp_every_page(bound, "fingerprint 0123abcd")
+    reader = PdfReader(io.BytesIO(out))
+    for n, page in enumerate(reader.pages, start=1):
+        text = page.extract_text()
+        assert f"dossier page {n} of 7" in text and "fingerprint 0123abcd" in text, (n, text)
+    forms = {ref.idnum for page in reader.pages for ref in page["/Resources"]["/XObject"].values()}
+    assert len(forms) == 7 + 1  # one per page number, one fingerprint shared by every page
+    assert stamp_every_page(bound, "fingerprint 0123abcd") == out
