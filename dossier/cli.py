@@ -144,7 +144,7 @@ def _add_analyse(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser(
         "analyse",
         help="validity ranges, sensitivity and Monte Carlo: write results.json, CSV tables and figures",
-        description=("Analyse method files and publish, per method, OUTPUT/methods/ID/results.json, CSV tables, figures (SVG and PNG) "
+        description=("Analyse method files and publish, per method, OUTPUT/methods/ID/results.json, CSV tables, figures (SVG) "
                      "and the calculation ledger, with OUTPUT/manifest.json: the machine-readable part of a dossier, without pages or PDFs. "
                      "The previous OUTPUT is replaced only when the analysis succeeds."),
     )

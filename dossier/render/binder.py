@@ -18,6 +18,7 @@ method id (``ID-summary``, ``ID-L-…``), so they stay unique when merged.
 
 from __future__ import annotations
 
+import hashlib
 import html
 import io
 import logging
@@ -26,7 +27,8 @@ from dataclasses import dataclass
 from datetime import datetime
 
 from pypdf import PdfReader, PdfWriter
-from pypdf.generic import ArrayObject, NameObject
+from pypdf import PageObject
+from pypdf.generic import ArrayObject, DecodedStreamObject, DictionaryObject, FloatObject, IndirectObject, NameObject, StreamObject
 
 from . import archival
 
@@ -120,11 +122,16 @@ def _stamp(writer: PdfWriter) -> None:
 def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, size: float) -> None:
     """Draw one line of text at the foot of each page of ``writer`` (``lines[i]`` on page i).
 
-    The lines are laid out by WeasyPrint as a PDF of their own, in the
-    reports' font, embedded (subset) like every other font of the reports,
-    so the stamped PDF stays archival; each page of that PDF is merged over
-    its page (pypdf wraps the page's own content in q … Q, so whatever
-    transformation it leaves in force does not move the line).
+    Each distinct line is laid out once by WeasyPrint, as a page of its own,
+    in the reports' font, embedded (subset) like every other font of the
+    reports, so the stamped PDF stays archival. That page becomes a form
+    XObject (named by a hash of the line), drawn on every page that carries
+    the line: the page's own content is wrapped in q … Q (so whatever
+    transformation it leaves in force does not move the line) and followed
+    by one ``Do``. The pages' content streams are neither parsed nor
+    rewritten, and a line repeated on every page (the fingerprint) is stored
+    once. (Merging a laid-out page over each page instead parsed every
+    page's content and cost 3–4× the time; docs/performance.md.)
 
     Parameters
     ----------
@@ -141,7 +148,8 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         return
     box = writer.pages[0].mediabox
     width, height = float(box.width), float(box.height)
-    pages = "".join(f'<section><p>{html.escape(t)}</p></section>' for t in lines)
+    distinct = list(dict.fromkeys(lines))
+    pages = "".join(f'<section><p>{html.escape(t)}</p></section>' for t in distinct)
     doc = (
         f"<style>@page {{ size: {width:.2f}pt {height:.2f}pt; margin: 0 }} body {{ margin: 0 }}"
         f"section {{ position: relative; height: {height - 2:.2f}pt; break-after: page; margin: 0 }}"
@@ -149,11 +157,51 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         f"</style>{pages}"
     )
     overlay = PdfReader(io.BytesIO(HTML(string=doc).write_pdf()))
-    if len(overlay.pages) != len(lines):  # pragma: no cover - one section is one page
-        raise RuntimeError(f"the page stamps took {len(overlay.pages)} pages for {len(lines)} lines")
-    for page, over in zip(writer.pages, overlay.pages):
-        page.merge_page(over)
-        page.compress_content_streams()  # pypdf leaves a merged page's content uncompressed (4 to 5 times the bytes)
+    if len(overlay.pages) != len(distinct):  # pragma: no cover - one section is one page
+        raise RuntimeError(f"the page stamps took {len(overlay.pages)} pages for {len(distinct)} lines")
+    # a name of its own per line, so that a page stamped twice (dossier.pdf: page number, then fingerprint) keeps both
+    names = {t: NameObject("/Stamp" + hashlib.sha256(t.encode()).hexdigest()[:16]) for t in distinct}
+    forms = {t: _form_xobject(writer, over) for t, over in zip(distinct, overlay.pages)}
+    draws = {t: writer._add_object(_stream(b"Q\nq " + names[t].encode() + b" Do Q\n")) for t in distinct}
+    push = writer._add_object(_stream(b"q\n"))
+    shared: dict[tuple[object, str], IndirectObject] = {}  # (the page's resources, line) → resources with the stamp
+    for page, t in zip(writer.pages, lines):
+        own = page.get("/Resources")
+        key = (own.idnum if isinstance(own, IndirectObject) else id(page), t)
+        if key not in shared:
+            shared[key] = writer._add_object(_with_form(own, names[t], forms[t]))
+        page[NameObject("/Resources")] = shared[key]
+        contents = page.get("/Contents")
+        streams = [] if contents is None else list(contents.get_object()) if isinstance(contents.get_object(), ArrayObject) else [contents]
+        page[NameObject("/Contents")] = ArrayObject([push, *streams, draws[t]])
+
+
+def _stream(data: bytes) -> StreamObject:
+    """A content stream of ``data``, Flate-compressed (deterministic)."""
+    raw = DecodedStreamObject()
+    raw.set_data(data)
+    return raw.flate_encode()
+
+
+def _form_xobject(writer: PdfWriter, page: PageObject) -> IndirectObject:
+    """Page ``page`` of another PDF as a form XObject of ``writer`` (its resources copied in)."""
+    form = _stream(page.get_contents().get_data() if page.get_contents() is not None else b"")
+    form.update({
+        NameObject("/Type"): NameObject("/XObject"),
+        NameObject("/Subtype"): NameObject("/Form"),
+        NameObject("/BBox"): ArrayObject([FloatObject(float(v)) for v in page.mediabox]),
+        NameObject("/Resources"): page["/Resources"].get_object().clone(writer),
+    })
+    return writer._add_object(form)
+
+
+def _with_form(resources: object, name: NameObject, form: IndirectObject) -> DictionaryObject:
+    """A copy of a page's resources (``None`` for none) with ``form`` as XObject ``name``."""
+    out = DictionaryObject(resources.get_object()) if resources is not None else DictionaryObject()
+    xobjects = DictionaryObject(out["/XObject"].get_object()) if "/XObject" in out else DictionaryObject()
+    xobjects[name] = form
+    out[NameObject("/XObject")] = xobjects
+    return out
 
 
 def stamp_every_page(pdf: bytes, line: str, *, attachments: Mapping[str, bytes] | None = None, modified: datetime | None = None,

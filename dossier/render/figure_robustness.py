@@ -17,7 +17,7 @@ from matplotlib.figure import Figure
 
 from ..analysis.method import MethodAnalysis, SolutionAnalysis
 from ..display import fixed, signed, significant
-from .figures import _RC, MINUS, PALETTE, FigureFile, _arrange, _legend_below, _plain_axis, _short, figure_bytes
+from .figures import _RC, MINUS, PALETTE, FigureFile, _arrange, _legend_below, _plain_axis, _short, figure_svg
 
 __all__ = ["ROBUSTNESS_KIND", "draw_robustness_figure", "robustness_figures"]
 
@@ -79,7 +79,7 @@ def draw_robustness_figure(sa: SolutionAnalysis, limit: float) -> tuple[Figure, 
 
 
 def robustness_figures(analysis: MethodAnalysis) -> tuple[FigureFile, ...]:
-    """The robustness figure of every solution, as SVG and PNG bytes.
+    """The robustness figure of every solution, as SVG bytes (drawn once, :func:`figure_svg`).
 
     The figures' ``shortcut`` is empty: they belong to the solution.
     """
@@ -89,6 +89,5 @@ def robustness_figures(analysis: MethodAnalysis) -> tuple[FigureFile, ...]:
         if sa.robustness is None:
             continue
         fig, alt, caption = draw_robustness_figure(sa, limit)
-        svg, png = figure_bytes(fig)
-        out.append(FigureFile(f"{sa.spec.id}-{ROBUSTNESS_KIND}", ROBUSTNESS_KIND, sa.spec.id, "", svg, png, alt, caption))
+        out.append(FigureFile(f"{sa.spec.id}-{ROBUSTNESS_KIND}", ROBUSTNESS_KIND, sa.spec.id, "", figure_svg(fig), alt, caption))
     return tuple(out)

@@ -1,4 +1,4 @@
-"""Figures of the analyses (matplotlib), as deterministic SVG and PNG bytes.
+"""Figures of the analyses (matplotlib), as deterministic SVG bytes.
 
 Five kinds per claimed shortcut: error against concentration (working range
 shaded, acceptance band, nominal point), error against pKa at several
@@ -12,6 +12,12 @@ plots stay readable printed in grey. Same inputs give byte-identical files:
 fixed SVG hash salt, no dates; text stays text in the SVG (DejaVu Sans, the
 font the site and the PDFs use), which WeasyPrint draws 2.7× faster than
 glyph paths.
+
+Each figure is laid out once (:func:`draw_figure`) and written once, as SVG
+(:func:`figure_svg`): the pages and the PDFs show the SVG, and a second
+format would cost a second full drawing (a PNG took longer than the SVG).
+The error map's dense layer is a raster image inside the SVG; its contours,
+text and axes stay vectors.
 
 Text is plain Unicode throughout: mathtext is off, so that text from method
 files shows as written, and tick labels come from our own formatters
@@ -42,7 +48,7 @@ from ..analysis.method import MethodAnalysis, ShortcutAnalysis, SolutionAnalysis
 from ..display import fixed, signed, significant  # noqa: E402
 from ..inputs.units import format_concentration  # noqa: E402
 
-__all__ = ["PALETTE", "FIGURE_KINDS", "FigureFile", "draw_figure", "method_figures", "figure_bytes", "power_of_ten", "plain_number", "PlainTicks"]
+__all__ = ["PALETTE", "FIGURE_KINDS", "FigureFile", "draw_figure", "method_figures", "figure_svg", "power_of_ten", "plain_number", "PlainTicks"]
 
 PALETTE = {
     "ink": "#1b2a3a",
@@ -81,26 +87,28 @@ _RC = {
 
 @dataclass(frozen=True)
 class FigureFile:
-    """One figure: file stem, SVG and PNG bytes, alt text and caption."""
+    """One figure: file stem, SVG bytes, alt text and caption."""
 
     stem: str
     kind: str
     solution: str
     shortcut: str
     svg: bytes
-    png: bytes
     alt: str
     caption: str
 
 
-def figure_bytes(fig: Figure) -> tuple[bytes, bytes]:
-    """(SVG, PNG) of a figure, deterministic; closes the figure."""
-    svg, png = io.BytesIO(), io.BytesIO()
+def figure_svg(fig: Figure) -> bytes:
+    """The SVG of a figure drawn by :func:`draw_figure`, deterministic; closes the figure.
+
+    The one place figures are written: every figure of the dossier goes
+    through here, drawn once by the SVG renderer.
+    """
+    svg = io.BytesIO()
     with matplotlib.rc_context(_RC):
         fig.savefig(svg, format="svg", metadata={"Date": None, "Creator": f"ph-dossier {__version__}"})
-        fig.savefig(png, format="png", dpi=120, metadata={"Software": f"ph-dossier {__version__}"})
     plt.close(fig)
-    return svg.getvalue(), png.getvalue()
+    return svg.getvalue()
 
 
 _SUPERSCRIPT = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
@@ -512,13 +520,12 @@ def draw_figure(kind: str, sa: SolutionAnalysis, s: ShortcutAnalysis, limit: flo
 
 
 def method_figures(analysis: MethodAnalysis) -> tuple[FigureFile, ...]:
-    """Every figure of a method's analysis, as SVG and PNG bytes."""
+    """Every figure of a method's analysis, as SVG bytes (:func:`figure_svg`)."""
     limit = analysis.method.criteria.max_ph_error
     out = []
     for sa in analysis.solutions:
         for s in sa.shortcuts:
             for kind in figure_kinds(s):
                 fig, alt, caption = draw_figure(kind, sa, s, limit)
-                svg, png = figure_bytes(fig)
-                out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, svg, png, alt, caption))
+                out.append(FigureFile(f"{sa.spec.id}-{s.id}-{kind}", kind, sa.spec.id, s.id, figure_svg(fig), alt, caption))
     return tuple(out)

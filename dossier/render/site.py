@@ -197,7 +197,6 @@ def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[
     figures = method_figures(a) + robustness_figures(a) if ctx.figures else ()
     for f in figures:
         files[LAYOUT.figure(mid, f.stem, "svg")] = f.svg
-        files[LAYOUT.figure(mid, f.stem, "png")] = f.png
     files[LAYOUT.ledger(mid)] = _json(ledger.to_document())
     if not ctx.site:
         return files

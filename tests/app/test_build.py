@@ -67,7 +67,7 @@ def test_same_inputs_give_byte_identical_outputs_in_any_folder(tmp_path: Path, m
     assert build(tmp_path, a, cache=False).ok
     assert build(tmp_path, b, cache=False).ok
     ta, tb = tree(a), tree(b)
-    assert ta == tb  # PDFs, SVGs, PNGs, pages, results, manifest: every byte
+    assert ta == tb  # PDFs, SVGs, pages, results, manifest: every byte
     assert any(k.endswith(".pdf") for k in ta) and any(k.endswith(".svg") for k in ta)
     for p in b.rglob("*"):
         if p.is_file():

@@ -25,7 +25,7 @@ def test_every_page_pdf_and_result_is_there(built: Path) -> None:
         for name in ("index.html", "results.json", f"{mid}.pdf", "validity.csv", "sensitivity.csv"):
             assert (folder / name).is_file(), (mid, name)
         svgs = sorted((folder / "figures").glob("*.svg"))
-        assert svgs and len(svgs) == len(list((folder / "figures").glob("*.png")))
+        assert svgs and not list((folder / "figures").glob("*.png"))  # each figure written once, as the SVG the pages show
         doc = json.loads((folder / "results.json").read_text(encoding="utf-8"))
         assert doc["method"]["id"] == mid
 

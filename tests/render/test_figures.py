@@ -38,7 +38,7 @@ from dossier.analysis.method import AnalysisSettings, analyse_method
 from dossier.inputs.loader import load_method
 from dossier.inputs.substances import load_table
 from dossier.render.figure_robustness import ROBUSTNESS_KIND, draw_robustness_figure
-from dossier.render.figures import FIGURE_KINDS, draw_figure, figure_bytes, figure_kinds
+from dossier.render.figures import FIGURE_KINDS, draw_figure, figure_kinds, figure_svg
 
 DEMO = sorted((Path(__file__).resolve().parents[2] / "methods").glob("*.yaml"))
 SVG_NS = "{http://www.w3.org/2000/svg}"
@@ -75,12 +75,12 @@ def drawn(request: pytest.FixtureRequest) -> Iterator[list[Drawn]]:
             assert set(kinds) == set(FIGURE_KINDS) - ({"error-vs-pka", "error-map"} if s.validity.pka_step is None else set())
             for kind in kinds:
                 fig, _, _ = draw_figure(kind, sa, s, limit)
-                svg, _ = figure_bytes(fig)  # closes the figure in pyplot: draw it again on a canvas of its own
+                svg = figure_svg(fig)  # closes the figure in pyplot: draw it again on a canvas of its own
                 FigureCanvasAgg(fig).draw()
                 out.append(Drawn(f"{request.param.stem}/{sa.spec.id}/{s.id}/{kind}", fig, svg))
     for sa in analysis.solutions:  # the robustness figure: one per solution
         fig, _, _ = draw_robustness_figure(sa, limit)
-        svg, _ = figure_bytes(fig)
+        svg = figure_svg(fig)
         FigureCanvasAgg(fig).draw()
         out.append(Drawn(f"{request.param.stem}/{sa.spec.id}/{ROBUSTNESS_KIND}", fig, svg))
     yield out
