@@ -208,7 +208,9 @@ def robustness(spec: SolutionSpec, conditions: ConditionsSpec, nominal: Solution
              (1.0, [1.0] * n_comp, t_lo, 0.0, 0.0), (1.0, [1.0] * n_comp, t_hi, 0.0, 0.0)]
     head = len(rows)
     scale = np.array([r[0] for r in rows] + [1.0] * TITRATION_POINTS)
-    factors = np.array([r[1] for r in rows] + [[1.0] * n_comp] * TITRATION_POINTS).reshape(-1, n_comp)
+    factors = np.ones((head + TITRATION_POINTS, n_comp))  # (points, components); no columns for a strong acid or base alone
+    for j, r in enumerate(rows):
+        factors[j] = r[1]
     temperature = np.array([r[2] for r in rows] + [conditions.temperature] * TITRATION_POINTS)
     acid = np.array([r[3] for r in rows] + list(np.maximum(-curve_x, 0.0)))
     base = np.array([r[4] for r in rows] + list(np.maximum(curve_x, 0.0)))

@@ -94,6 +94,22 @@ def test_dilution_value_of_a_weak_acid_alone_is_half_log_two() -> None:
     assert _robust(m).dilution_value == pytest.approx(0.5 * math.log10(2.0), abs=0.002)
 
 
+def test_a_strong_acid_alone_dilutes_and_neutralises_as_its_closed_form() -> None:
+    # 1 mmol/L HCl alone (no components), ideal: [H+] = C/2 + sqrt(C²/4 + Kw),
+    # so pH ≈ −log C while C ≫ sqrt(Kw) (the charge balance, derived here):
+    # 1 + 1 with water gives +log 2; 1 mmol/L more HCl −log 2; 1 mmol/L NaOH
+    # neutralises it to pure water's pH ½ pKw.
+    m = (MethodBuilder()
+         .solution(shortcuts=("strong-acid",), strong_acid={"concentration": "1 mmol/L", "working_range": ["0.1 mmol/L", "10 mmol/L"],
+                                                            "name": "hydrochloric acid"})
+         .build())
+    r = _robust(m)
+    assert r.components == ()
+    assert r.dilution_value == pytest.approx(math.log10(2.0), abs=1e-6)
+    assert r.delta_ph_strong_acid == pytest.approx(-math.log10(2.0), abs=1e-6)
+    assert r.ph + r.delta_ph_strong_base == pytest.approx(equilibrium(m.solutions[0].to_solution(m.conditions)).pkw / 2.0, abs=1e-6)
+
+
 def test_one_component_alone_moves_the_ratio_by_the_tolerance() -> None:
     # Henderson–Hasselbalch (ideal, equal totals of 50 mmol/L): +x % of the salt alone gives
     # ΔpH = log10(1 + x/100), −x % of it log10(1 − x/100); the acid the opposite sign.
