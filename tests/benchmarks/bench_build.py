@@ -26,6 +26,7 @@ import subprocess
 import sys
 import tempfile
 import time
+from collections.abc import Iterator
 from pathlib import Path
 from statistics import median
 
@@ -126,28 +127,28 @@ def _same_files(a: Path, b: Path) -> bool:
     return names == sorted(p.name for p in b.glob("*.yaml")) and all((a / n).read_bytes() == (b / n).read_bytes() for n in names)
 
 
-def run() -> list[Row]:
-    rows: list[Row] = []
+def run() -> Iterator[Row]:
+    """The rows, each as soon as it is measured (a long run that is cut short still shows what it measured)."""
     with tempfile.TemporaryDirectory() as tmp_name:
         tmp = Path(tmp_name)
         old = _extract(OLD_COMMIT, tmp / "old-code")
         if not _which(old).startswith(str(old)):
             raise RuntimeError(f"the old code is not the one imported: {_which(old)}")
         set_rows, set_new = _side_by_side("benchmark set (10 methods)", old, DEMO_SET, tmp, "≤ 0.3")
-        rows += set_rows
+        yield from set_rows
         demo = tmp / "methods"
         shutil.copytree(ROOT / "methods", demo)
         if _same_files(ROOT / "methods", DEMO_SET):
-            rows.append(Row("demo dossier of the day: the same method files as the benchmark set", 0, "", "not built twice"))
+            yield Row("demo dossier of the day: the same method files as the benchmark set", 0, "", "not built twice")
             cold_times = set_new
         elif _reads(old, demo):
             demo_rows, cold_times = _side_by_side("demo dossier of the day", old, demo, tmp, "≤ 0.5")
-            rows += demo_rows
+            yield from demo_rows
         else:
-            rows.append(Row("demo dossier of the day: the old code cannot read its method files", 0, "",
-                            f"old side: the benchmark set ({OLD_COMMIT[:7]}'s demo)"))
+            yield Row("demo dossier of the day: the old code cannot read its method files", 0, "",
+                      f"old side: the benchmark set ({OLD_COMMIT[:7]}'s demo)")
             demo_rows, cold_times = _side_by_side("demo of the day (old: benchmark set)", old, demo, tmp, "≤ 0.5", DEMO_SET)
-            rows += demo_rows
+            yield from demo_rows
 
         out = tmp / "out-rebuilt"
         _run(ROOT, "build", str(demo), "-o", str(out), "--quiet", label="warm-up")  # fills the cache; not timed
@@ -163,7 +164,7 @@ def run() -> list[Row]:
             f.write_text(text.replace("max_ph_error: 0.05", f"max_ph_error: {limit}"), encoding="utf-8")
             one.append(_run(ROOT, "build", str(demo), "-o", str(out), "--quiet", label="one"))
             verify.append(_run(ROOT, "verify", str(out), label="verify"))
-        rows += [
+        yield from [
             Row("rebuild, nothing changed", median(unchanged), "s", _spread(unchanged)),
             Row("rebuild, one method changed", median(one), "s", _spread(one)),
             Row("  one-method rebuild / cold build", median(one) / cold, "×", "aim ≤ 0.15"),
@@ -172,4 +173,3 @@ def run() -> list[Row]:
             Row("CPU: rebuild nothing changed, one method changed, verify", median(CPU["one"]), "s",
                 f"nothing {median(CPU['unchanged']):.3g} s, one method {median(CPU['one']):.3g} s, verify {median(CPU['verify']):.3g} s"),
         ]
-    return rows
