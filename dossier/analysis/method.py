@@ -139,7 +139,7 @@ def _solution(method: Method, index: int, spec: SolutionSpec, settings: Analysis
     gum_exact, gum_errors = gum(claimed, spec, c, keys)
     model = model_uncertainty(c.activity, exact.ionic_strength)
     mc = monte_carlo(claimed, spec, c, limit, draws=settings.draws, seed=settings.seed, spawn_key=(index,), model_u=model.u,
-                     adaptive=settings.adaptive, thresholds=(1.0 - method.criteria.probability,))
+                     adaptive=settings.adaptive, required_probability=method.criteria.probability)
     exact_cmp = compare(gum_exact, mc.exact)
     shortcuts = []
     for sid in claimed:

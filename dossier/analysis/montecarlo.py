@@ -31,13 +31,22 @@ the two ends of the coverage interval),
 from the batch results q^(r). The results are stable when 2 s_q ≤ δ for all
 four, δ being the numerical tolerance of u written to two significant
 digits (above) with u from all h·M draws. The draws also continue until the
-probability a verdict compares with a threshold t is decided: the Wilson
-score interval of P(|error| > limit) at confidence 99 % (Bonferroni-corrected
-over the largest possible number of checks, one per batch) lies wholly on
-one side of t. Drawing stops when both hold, or at the ``draws`` cap; the
-draws used, the tolerance δ and the largest 2 s_q reached are recorded
-(:class:`Stopping`). Every batch continues the one seeded generator, so a
-run is reproducible from its seed; a fixed run is one batch of ``draws``.
+conformity probability of the decision rule (:mod:`dossier.analysis.decision`,
+JCGM 106) decides each verdict: for every claimed shortcut, the count of
+draws with |pH_shortcut − pH_true| ≤ L (the shortcut at nominal inputs
+against each draw of the exact pH plus a draw of the activity model's error)
+gives p_c, and its Wilson score interval at confidence 99 % (Bonferroni-
+corrected over the largest possible number of checks: one per batch and
+shortcut) must lie wholly on one side of the required probability P. That
+is the probability the verdict uses when the GUM result is not validated;
+when it is, the verdict uses the closed form and the counted p_c, decided
+the same way, stands as its check. Drawing stops when both hold, or at the
+``draws`` cap; the draws used, the tolerance δ, the largest 2 s_q reached
+and each p_c's interval are recorded (:class:`Stopping`). The inputs
+continue one seeded generator and the model errors a second one spawned
+from the same seed, so a run is reproducible from its seed and the input
+draws do not depend on the model uncertainty; a fixed run is one batch of
+``draws``.
 
 References
 ----------
@@ -59,7 +68,6 @@ from numpy.typing import NDArray
 from ..chemistry import equilibrium
 from ..inputs.model import ConditionsSpec, SolutionSpec
 from .batch import inputs_of, solution_for, variation_from
-from .decision import conformity_counted
 from .sensitivity import GumResult
 
 __all__ = ["Summary", "Comparison", "McResult", "Stopping", "monte_carlo", "compare", "DEFAULT_DRAWS", "COVERAGE", "K95",
@@ -74,6 +82,8 @@ BATCH_DRAWS = 10_000
 """Draws per batch of the adaptive procedure: M = max(100/(1 − p), 10⁴) (JCGM 101 §7.9.4)."""
 DECISION_CONFIDENCE = 0.99
 """Confidence with which an adaptive run decides a probability against its threshold (over all checks)."""
+MODEL_STREAM = 0x6D6F64
+"""Last word of the spawn key of the model-error stream (the input stream's key without it)."""
 
 
 @dataclass(frozen=True)
@@ -134,6 +144,12 @@ class Stopping:
     tolerance : dict
         ``{quantity: (δ, largest 2 s_q)}`` [pH], quantity ``"exact"`` or a
         shortcut id; both 0 for a fixed run or a single batch.
+    required_probability : float or None
+        The P each conformity probability was decided against (None: none was).
+    conformity_interval : dict
+        ``{shortcut id: (low, high)}``: the Wilson score interval of the
+        counted conformity probability at the stop, at the corrected
+        confidence of each single check (empty when not checked).
     """
 
     adaptive: bool
@@ -144,6 +160,8 @@ class Stopping:
     probabilities_decided: bool | None
     confidence: float
     tolerance: dict[str, tuple[float, float]]
+    required_probability: float | None = None
+    conformity_interval: dict[str, tuple[float, float]] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -205,7 +223,7 @@ def monte_carlo(
     spawn_key: tuple[int, ...] = (),
     model_u: float = 0.0,
     adaptive: bool = False,
-    thresholds: tuple[float, ...] = (),
+    required_probability: float | None = None,
     batch: int = BATCH_DRAWS,
 ) -> McResult:
     """Propagate the input distributions through the exact pH and the shortcuts.
@@ -224,13 +242,15 @@ def monte_carlo(
     spawn_key : tuple of int
         Distinguishes the solutions of a dossier drawn from the same seed.
     model_u : float
-        Standard uncertainty of the activity model [pH]; drawn (normal) after
-        the inputs, so that the input draws do not depend on it.
+        Standard uncertainty of the activity model [pH]; drawn (normal) from a
+        stream of its own, so that the input draws do not depend on it.
     adaptive : bool
-        Draw in batches until the results are stable and the probabilities
-        decided (module docstring, JCGM 101 §7.9); otherwise one batch of ``draws``.
-    thresholds : tuple of float
-        Values each P(|error| > limit) is to be decided against (adaptive only).
+        Draw in batches until the results are stable and the conformity
+        probabilities decided (module docstring, JCGM 101 §7.9); otherwise one
+        batch of ``draws``.
+    required_probability : float, optional
+        The probability P of the decision rule each counted conformity
+        probability is to be decided against (adaptive only).
     batch : int
         Draws per batch (adaptive only).
 
@@ -240,15 +260,19 @@ def monte_carlo(
         ``draws`` is the number of draws used; ``stopping`` says why the run stopped.
     """
     rng = np.random.Generator(np.random.PCG64(np.random.SeedSequence(seed, spawn_key=spawn_key)))
+    model_rng = np.random.Generator(np.random.PCG64(np.random.SeedSequence(seed, spawn_key=(*spawn_key, MODEL_STREAM))))
     inputs = inputs_of(spec, conditions)
+    nominal = solution_for(spec, conditions)
+    stated = {sid: float(spec.approximation(sid).ph(nominal)) for sid in approx_ids}
     size = min(batch, draws) if adaptive else draws
-    looks = max(1, math.ceil(draws / size) - 1)  # checks after batches 2 … h_max
-    z = NormalDist().inv_cdf(1.0 - (1.0 - DECISION_CONFIDENCE) / (2.0 * looks))
+    to_decide = approx_ids if required_probability is not None else ()
+    checks = max(1, math.ceil(draws / size) - 1) * max(1, len(to_decide))  # looks after batches 2 … h_max, per shortcut
+    z = NormalDist().inv_cdf(1.0 - (1.0 - DECISION_CONFIDENCE) / (2.0 * checks))
     exact_parts: list[NDArray[np.float64]] = []
     error_parts: dict[str, list[NDArray[np.float64]]] = {sid: [] for sid in approx_ids}
     batch_results: dict[str, list[tuple[float, float, float, float]]] = {k: [] for k in ("exact", *approx_ids)}
     sizes: list[int] = []
-    beyond = dict.fromkeys(approx_ids, 0)  # draws so far with |error| > limit
+    conforming = dict.fromkeys(approx_ids, 0)  # draws so far with |Δ| ≤ limit
     used = 0
     stable = decided = False
     tolerance: dict[str, tuple[float, float]] = {}
@@ -260,12 +284,14 @@ def monte_carlo(
         exact_parts.append(exact)
         for sid in approx_ids:
             error_parts[sid].append(np.broadcast_to(np.asarray(spec.approximation(sid).ph(sol), dtype=np.float64), (n,)) - exact)
+        # the true pH: each draw of the exact pH plus a draw of the activity model's error
+        true_ph = exact + model_rng.normal(0.0, model_u, n) if model_u > 0.0 else exact
+        for sid in approx_ids:
+            conforming[sid] += int(np.count_nonzero(np.abs(stated[sid] - true_ph) <= limit))
         used += n
         if not adaptive:
             break
         sizes.append(n)
-        for sid in approx_ids:
-            beyond[sid] += int(np.count_nonzero(np.abs(error_parts[sid][-1]) > limit))
         batch_results["exact"].append(_batch_results(exact))
         for sid in approx_ids:
             batch_results[sid].append(_batch_results(error_parts[sid][-1]))
@@ -273,10 +299,7 @@ def monte_carlo(
             continue
         tolerance = {k: _stability(v, sizes) for k, v in batch_results.items()}
         stable = all(spread <= delta for delta, spread in tolerance.values())
-        decided = all(
-            _decided(beyond[sid], used, t, z)
-            for sid in approx_ids for t in thresholds
-        )
+        decided = all(_decided(conforming[sid], used, required_probability, z) for sid in to_decide)  # type: ignore[arg-type]
         if stable and decided:
             break
     exact = _joined(exact_parts)
@@ -286,16 +309,13 @@ def monte_carlo(
         err = _joined(error_parts[sid])
         errors[sid] = _summary(err)
         p_exceed[sid] = float(np.count_nonzero(np.abs(err) > limit)) / used
-    draws_max = draws
-    draws = used
     checked = adaptive and len(exact_parts) >= 2
-    stopping = Stopping(adaptive, draws_max, size, len(exact_parts), stable if checked else None,
-                        (decided or not thresholds or not approx_ids) if checked else None, DECISION_CONFIDENCE, tolerance)
-    # the activity model's error, drawn after the inputs so that the input draws do not depend on it
-    model = rng.normal(0.0, model_u, draws) if model_u > 0.0 else 0.0
-    nominal = solution_for(spec, conditions)
-    p_conform = {sid: conformity_counted(float(spec.approximation(sid).ph(nominal)) - exact - model, limit) for sid in approx_ids}
-    return McResult(draws, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit, p_conform, model_u, stopping)
+    intervals = {sid: _wilson(conforming[sid], used, z) for sid in to_decide} if checked else {}
+    stopping = Stopping(adaptive, draws, size, len(exact_parts), stable if checked else None,
+                        (decided or not to_decide) if checked else None, DECISION_CONFIDENCE, tolerance,
+                        required_probability if to_decide else None, intervals)
+    p_conform = {sid: conforming[sid] / used for sid in approx_ids}
+    return McResult(used, seed, tuple(spawn_key), _summary(np.asarray(exact)), errors, p_exceed, limit, p_conform, model_u, stopping)
 
 
 def _joined(parts: list[NDArray[np.float64]]) -> NDArray[np.float64]:
@@ -323,12 +343,19 @@ def _stability(results: list[tuple[float, float, float, float]], sizes: list[int
     return _two_digits_tolerance(u), float(2.0 * s.max())
 
 
-def _decided(count: int, n: int, threshold: float, z: float) -> bool:
-    """Whether the Wilson score interval of count/n at normal quantile z excludes ``threshold``."""
+def _wilson(count: int, n: int, z: float) -> tuple[float, float]:
+    """The Wilson score interval of the proportion count/n at normal quantile z (Wilson 1927)."""
     p = count / n
     centre = (p + z * z / (2 * n)) / (1 + z * z / n)
     half = z / (1 + z * z / n) * math.sqrt(p * (1 - p) / n + z * z / (4 * n * n))
-    return centre - half > threshold or centre + half < threshold
+    # at count 0 (or n) the lower (upper) end is exactly 0 (1); say so rather than leave a rounding residue
+    return (0.0 if count == 0 else max(0.0, centre - half)), (1.0 if count == n else min(1.0, centre + half))
+
+
+def _decided(count: int, n: int, threshold: float, z: float) -> bool:
+    """Whether the Wilson score interval of count/n at normal quantile z excludes ``threshold``."""
+    low, high = _wilson(count, n, z)
+    return low > threshold or high < threshold
 
 
 def _two_digits_tolerance(u: float) -> float:

@@ -203,14 +203,21 @@ def _is_zero(a: NDArray[np.float64]) -> bool:
 
 
 def _balance(x, kw, comps_k, comps, ca, cb):  # noqa: ANN001, ANN202 - hot kernel
-    """G = ln(P/N) and dG/dx at x = ln h; also P, N and the fractions."""
+    """G = ln(P/N) and dG/dx at x = ln h; also P, N and the fractions.
+
+    P, N and their derivatives are summed in place once they are arrays of
+    their own (fewer temporaries; the hot loop of every solve).
+    """
     h = np.exp(x)
-    inv_h = 1.0 / h
+    inv_h = np.reciprocal(h)
     oh = kw * inv_h
     p = h if _is_zero(cb) else h + cb
     n = oh if _is_zero(ca) else oh + ca
+    p_own = p is not h  # p, dp, n may still be h or oh: add to them out of place once
+    n_own = n is not oh
     dp = h
-    dn = -oh
+    dp_own = False
+    dn = np.negative(oh)
     alphas = []
     for comp, k in zip(comps, comps_k):
         # An open gas's ions scale with 1/h^j at fixed state 0: d ln D_j / d ln h = −j, i.e. r̄ = 0.
@@ -222,14 +229,25 @@ def _balance(x, kw, comps_k, comps, ca, cb):  # noqa: ANN001, ANN202 - hot kerne
             if j == r:
                 continue
             w = comp.total * aj if abs(r - j) == 1 else (abs(r - j) * comp.total) * aj
+            dw = w * (rbar - j)
             if j < r:
-                p = p + w
-                dp = dp + w * (rbar - j)
+                if p_own:
+                    p += w
+                else:
+                    p, p_own = p + w, True
+                if dp_own:
+                    dp += dw
+                else:
+                    dp, dp_own = dp + dw, True
             else:
-                n = n + w
-                dn = dn + w * (rbar - j)
+                if n_own:
+                    n += w
+                else:
+                    n, n_own = n + w, True
+                dn += dw
     g = np.log(p / n)
-    dg = dp / p - dn / n
+    dg = dp / p
+    dg -= dn / n
     return g, dg, p, n, alphas
 
 
@@ -263,8 +281,8 @@ def _solve_h(x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
     newton_stop = 0.1 * np.sqrt(tol)
     for it in range(1, _MAX_NEWTON + 1):
         g, dg, _, _, _ = _balance(x, w_kw, w_k, w_c, w_ca, w_cb)
-        lo = np.where(g < 0.0, x, lo)  # a non-finite G (overflow) updates neither end
-        hi = np.where(g > 0.0, x, hi)
+        np.copyto(lo, x, where=g < 0.0)  # a non-finite G (overflow) updates neither end
+        np.copyto(hi, x, where=g > 0.0)
         step = np.divide(g, dg, out=g)
         x_new = x - step
         # Newton's step unless it leaves the bracket (or is not finite): bisect.
@@ -484,19 +502,24 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
             sl = slice(start, min(start + CHUNK, size))
             part = block.take(sl) if shape else block
             m = sl.stop - sl.start
+            last = None
             if ideal:
                 args = _kernel_args(part, 0.0)
                 x, its, failed = _solve_h(np.full(m, np.nan), *args, tolerance)
                 what = "the charge balance"
             else:
-                x, f, its, failed, what = _solve_with_activity(part, m, model.unit_log_gamma, davies, tolerance)
-                args = _kernel_args(part, f)
+                x, f, its, failed, what, last = _solve_with_activity(part, m, model.unit_log_gamma, davies, tolerance)
             if failed.any():
                 _raise_unconverged(solution, start + int(np.flatnonzero(failed)[0]), int(failed.sum()), what)
             iterations = max(iterations, its)
-            kw, ks, comps, ca, cb = args
-            _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
-            ionic[sl] = _ionic_strength(x, kw, alphas, comps, ca, cb, part.background)
+            if last is not None:  # the ionic-strength loop's final evaluation is at this x and f already
+                (kw, ks, comps, ca, cb), p, n, alphas, ionic[sl] = last
+            else:
+                if not ideal:
+                    args = _kernel_args(part, f)
+                kw, ks, comps, ca, cb = args
+                _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
+                ionic[sl] = _ionic_strength(x, kw, alphas, comps, ca, cb, part.background)
             residual[sl] = (p - n) / np.maximum(p, n)
             np.multiply(x, -1.0 / LN10, out=ph_conc[sl])
             if not ideal:
@@ -565,7 +588,13 @@ def _kernel_args(block: _Block, f):  # noqa: ANN001, ANN202
 
 
 def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, tol: float):  # noqa: ANN001, ANN202
-    """Secant iteration on ψ(I) = I(h(I)) − I, bracketed in [0, I_max], per point."""
+    """Secant iteration on ψ(I) = I(h(I)) − I, bracketed in [0, I_max], per point.
+
+    Returns (x, f, iterations, failed, what, last): ``last`` is the final
+    evaluation — (kernel arguments, P, N, fractions, I) at the returned x and
+    f — when every point of the block stopped at the same outer iteration
+    (the usual case on Monte Carlo draws), else None.
+    """
 
     def log_gamma(b: _Block, i):  # noqa: ANN001, ANN202
         return unit_log_gamma(np.sqrt(i), i, b.a_dh, b.ba, davies)
@@ -616,8 +645,8 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
         if failed.any():
             bad = np.zeros(m, dtype=bool)
             bad[pos[failed]] = True
-            return x_all, f_all, total_iterations, bad, "the charge balance"
-        _, _, _, _, alphas = _balance(x, kw, ks, comps, ca, cb)
+            return x_all, f_all, total_iterations, bad, "the charge balance", None
+        _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
         phi = _ionic_strength(x, kw, alphas, comps, ca, cb, sub.background)
         psi = phi - i_now
         x_all[pos] = x
@@ -636,10 +665,12 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
             bad[pos[stuck]] = True
             beyond = bool(np.any(l_[stuck] >= I_CEILING * (1 - 1e-9)))
             why = f"the ionic-strength iteration (the ionic strength passes {I_CEILING:g} mol/kg, beyond the range of any activity model)" if beyond else "the ionic-strength iteration"
-            return x_all, f_all, total_iterations, bad, why
+            return x_all, f_all, total_iterations, bad, why, None
         done = converged | pinched
         if done.all():
-            return x_all, f_all, total_iterations, np.zeros(m, dtype=bool), ""
+            # ``pos`` still the whole block: every point is at this evaluation
+            last = ((kw, ks, comps, ca, cb), p, n, alphas, phi) if pos.size == m else None
+            return x_all, f_all, total_iterations, np.zeros(m, dtype=bool), "", last
         p_i, p_psi = prev_i[pos], prev_psi[pos]
         with np.errstate(divide="ignore", invalid="ignore"):
             secant = i_now - psi * (i_now - p_i) / (psi - p_psi)
@@ -655,7 +686,7 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
         sub = sub.take(keep)
     bad = np.zeros(m, dtype=bool)
     bad[pos] = True
-    return x_all, f_all, total_iterations, bad, "the ionic-strength iteration"
+    return x_all, f_all, total_iterations, bad, "the ionic-strength iteration", None
 
 
 # ---------------------------------------------------------------- derived quantities

@@ -96,6 +96,8 @@ def _stopping(st: Stopping | None, draws: int) -> dict[str, Any]:
         "digits_stable": st.digits_stable,
         "probabilities_decided": st.probabilities_decided,
         "decision_confidence": st.confidence,
+        "decided_against_required_probability": st.required_probability,
+        "conformity_interval": {k: list(v) for k, v in st.conformity_interval.items()},
         "tolerance": {k: {"numerical_tolerance": d, "largest_two_s": two_s} for k, (d, two_s) in st.tolerance.items()},
     }
 

@@ -1,6 +1,7 @@
 """Adaptive Monte Carlo (JCGM 101:2008 §7.9): agreement with a fixed 10⁶-draw
 run within the numerical tolerance, reproducibility from the seed, the cap,
-and the decision of a probability against its threshold."""
+and the decision of the conformity probability (JCGM 106) against the
+required probability."""
 
 from __future__ import annotations
 
@@ -25,11 +26,18 @@ def _results(s) -> tuple[float, float, float, float]:  # noqa: ANN001
     return (s.mean, s.u, *s.coverage)
 
 
-def test_adaptive_agrees_with_a_fixed_million_draws_within_the_tolerance() -> None:
+@pytest.mark.parametrize(
+    "limit",
+    # the method's own limit (the shortcut's error, about 0.30 pH, is far outside: p_c = 0, decided below)
+    # and 0.34 pH, where p_c is about 0.97: decided above the required 0.95 from its counted value
+    [None, 0.34],
+)
+def test_adaptive_agrees_with_a_fixed_million_draws_within_the_tolerance(limit: float | None) -> None:
     m, spec = _phosphate()
-    limit, allowed = m.criteria.max_ph_error, 1.0 - m.criteria.probability
-    adaptive = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=7, adaptive=True, thresholds=(allowed,))
-    fixed = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=8, draws=1_000_000)
+    limit, required = limit or m.criteria.max_ph_error, m.criteria.probability
+    model_u = 0.002  # an activity-model uncertainty of the size the decision rule adds at I ≈ 0.1 mol/kg
+    adaptive = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=7, adaptive=True, required_probability=required, model_u=model_u)
+    fixed = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=8, draws=1_000_000, model_u=model_u)
     st = adaptive.stopping
     assert st is not None and st.adaptive and st.digits_stable and st.probabilities_decided
     assert adaptive.draws < 1_000_000 and adaptive.draws == st.batches * st.batch_size
@@ -43,8 +51,17 @@ def test_adaptive_agrees_with_a_fixed_million_draws_within_the_tolerance() -> No
         # are compared within 2 δ (4 s).
         for got, want in zip(_results(a), _results(f)):
             assert abs(got - want) <= 2.0 * delta, (name, got, want, delta)
-    for sid in spec.shortcuts:  # the verdict's side of the threshold is the same
-        assert (adaptive.p_exceed[sid] > allowed) == (fixed.p_exceed[sid] > allowed)
+    assert st.required_probability == required
+    for sid in spec.shortcuts:
+        # the verdict's side of the required probability is the same, and the fixed
+        # run's conformity probability lies in the interval the adaptive run stopped on
+        # (the fixed run's own spread, √(p(1 − p)/10⁶), is added)
+        assert (adaptive.p_conform[sid] >= required) == (fixed.p_conform[sid] >= required)
+        low, high = st.conformity_interval[sid]
+        assert low <= adaptive.p_conform[sid] <= high and (low > required or high < required)
+        pf = fixed.p_conform[sid]
+        spread = 3.0 * (pf * (1.0 - pf) / 1e6) ** 0.5
+        assert low - spread <= pf <= high + spread, (sid, low, pf, high)
 
 
 def test_adaptive_run_is_reproducible_from_its_seed() -> None:
@@ -56,6 +73,12 @@ def test_adaptive_run_is_reproducible_from_its_seed() -> None:
     assert one.draws == two.draws and _results(one.exact) == _results(two.exact)
     assert one.exact.histogram == two.exact.histogram and one.p_exceed == two.p_exceed
     assert _results(one.exact) != _results(other.exact)
+    # the model errors come from a stream of their own: the input draws do not depend on them
+    with_model = monte_carlo(*args, seed=11, draws=20_000, model_u=0.01)
+    without = monte_carlo(*args, seed=11, draws=20_000)
+    assert _results(with_model.exact) == _results(without.exact)
+    again = monte_carlo(*args, seed=11, draws=20_000, model_u=0.01)
+    assert with_model.p_conform == again.p_conform
 
 
 def test_a_fixed_run_is_one_batch_and_the_cap_holds() -> None:
@@ -67,21 +90,28 @@ def test_a_fixed_run_is_one_batch_and_the_cap_holds() -> None:
     first = monte_carlo(*args, seed=3, draws=10_000)
     single = monte_carlo(*args, seed=3, adaptive=True, draws=10_000)
     assert _results(first.exact) == _results(single.exact) and single.stopping.digits_stable is None
+    assert first.p_conform == single.p_conform
 
 
-def test_an_undecidable_probability_runs_to_the_cap() -> None:
-    # A limit at the median |error| and a threshold at the probability itself: never decided.
+def test_an_undecidable_conformity_probability_runs_to_the_cap() -> None:
+    # A limit at the median |Δ| and the required probability at p_c itself: never decided.
     m, spec = _phosphate()
     sid = spec.shortcuts[0]
     probe = monte_carlo(spec.shortcuts, spec, m.conditions, 1.0, seed=5, draws=40_000)
-    limit = abs(probe.errors[sid].mean)
-    p = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=5, draws=40_000).p_exceed[sid]
+    stated = probe.exact.mean + probe.errors[sid].mean  # about the shortcut's pH
+    limit = abs(stated - probe.exact.mean) + 0.5 * probe.exact.u
+    p = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=5, draws=40_000).p_conform[sid]
     assert 0.1 < p < 0.9
-    run = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=5, adaptive=True, draws=60_000, thresholds=(p,))
+    run = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=5, adaptive=True, draws=60_000, required_probability=p)
     assert run.draws == 60_000 and run.stopping.probabilities_decided is False
-    # The same run against a threshold far from p stops as soon as the digits are stable.
-    easy = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=5, adaptive=True, draws=60_000, thresholds=(0.99,))
-    assert easy.stopping.probabilities_decided is True
+    low, high = run.stopping.conformity_interval[sid]
+    assert low <= p <= high
+    # The same run against a required probability far from p_c stops as soon as the digits are stable.
+    easy = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=5, adaptive=True, draws=60_000, required_probability=0.999)
+    assert easy.stopping.probabilities_decided is True and easy.stopping.conformity_interval[sid][1] < 0.999
+    # Without a required probability nothing is decided, and the record says so.
+    free = monte_carlo(spec.shortcuts, spec, m.conditions, limit, seed=5, adaptive=True, draws=60_000)
+    assert free.stopping.required_probability is None and free.stopping.conformity_interval == {}
 
 
 @pytest.mark.parametrize(
@@ -112,6 +142,10 @@ def test_results_json_records_the_draws_used_and_the_tolerance_reached() -> None
         st = sol["monte_carlo_stopping"]
         assert st["draws_used"] == sa.monte_carlo.draws == st["batches"] * st["batch_size"] <= st["draws_max"] == 40_000
         assert set(st["tolerance"]) == {"exact", *sa.spec.shortcuts}
+        assert st["decided_against_required_probability"] == m.criteria.probability
+        assert set(st["conformity_interval"]) == set(sa.spec.shortcuts)
+        for sid, (low, high) in st["conformity_interval"].items():
+            assert 0.0 <= low <= sa.monte_carlo.p_conform[sid] <= high <= 1.0
         exact = st["tolerance"]["exact"]
         assert exact["numerical_tolerance"] == _two_digits_tolerance(sa.monte_carlo.exact.u) and exact["largest_two_s"] > 0
     fixed = analyse_method(m, AnalysisSettings(draws=40_000, map_pka=11, map_conc=11, adaptive=False))
