@@ -684,9 +684,12 @@ def _titrant(ctx: _Ctx, loc: Loc, t: TitrantIn, sol: SolutionIn, conditions: Con
     if pka is None:
         same = next((c for c in sol.components if c.substance == t.substance), None)
         if same is None:
-            known = "" if ctx.table.get(t.substance) is not None else did_you_mean(t.substance, list(ctx.table.substances))
-            ctx.add(loc + ("substance",), f"{t.substance!r}{known} is not a component of this solution: give its pka entries "
-                                          "(one per step, each with its uncertainty), as for a component")
+            if ctx.table.get(t.substance) is None:
+                ctx.add(loc + ("substance",), f"{t.substance!r} is neither in the substance table{did_you_mean(t.substance, list(ctx.table.substances))} "
+                                              "nor a component of this solution: use a table id (see `dossier substances`), or give charge and every pKa value")
+            else:
+                ctx.add(loc + ("substance",), f"{t.substance!r} is not a component of this solution: give its pka entries "
+                                              "(one per step, each with its uncertainty), as for a component")
             return None
         pka, charge = same.pka, same.charge if charge is None else charge
     as_component = ComponentIn(substance=t.substance, form=t.form, concentration="1 mol/L", working_range=["0.5 mol/L", "2 mol/L"],
