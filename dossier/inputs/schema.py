@@ -346,7 +346,8 @@ class SolutionIn(_Model):
     )
     adjusted_to: AdjustedTo | None = Field(
         None,
-        description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",
+        description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}, or with a substance and its form, "
+        "{ph: 7.2, with: {substance: phosphoric-acid, form: 2}}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",
     )
     strong_acid_stock: ConcentrationText | None = Field(
         None, description="Concentration of the stock the strong acid is measured from, with unit: the preparation table gives its volume per litre.",
