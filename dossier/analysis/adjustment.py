@@ -3,7 +3,8 @@ procedure's shortcut prescribes, and the pH that shortcut's recipe really gives.
 
 The exact amount comes from the charge balance (titrant enters it linearly;
 :func:`dossier.chemistry.titrant_for_ph`) and is computed when the method is
-checked. The shortcut's amount is the x at which the first claimed formula
+checked. A strong titrant is part of the solution's strong base (acid), a
+weak one (a substance and its form) is its last component; x varies that. The shortcut's amount is the x at which the first claimed formula
 shortcut that applies gives the target,
 
 .. math::
@@ -41,7 +42,7 @@ class AdjustmentResult:
     ----------
     target_ph : float
     titrant : str
-        ``strong-base`` or ``strong-acid``.
+        ``strong-base``, ``strong-acid``, or a weak titrant ``<substance>, form <n>``.
     amount_mol_per_l : float
         Exact amount [mol per litre of final solution].
     shortcut : str or None
@@ -64,18 +65,34 @@ class AdjustmentResult:
     stock_mol_per_l: float | None
     volume_ml_per_l: float | None
     shortcut_volume_ml_per_l: float | None
+    titrant_compound: str | None = None
+    """For a weak titrant, the compound of its form (from the substance table; None for a strong titrant)."""
 
 
-def _with_titrant(solution: Solution, field: str, start: float, x: float | np.ndarray) -> Solution:
-    return dataclasses.replace(solution, **{field: start + x})
+@dataclass(frozen=True)
+class _Titrant:
+    """Where the titrant sits in the engine's solution: ``field`` ``strong_base`` /
+    ``strong_acid``, or ``component`` (its index); ``start`` is what is there without it."""
+
+    field: str
+    start: float
+    component: int | None = None
 
 
-def _shortcut_amount(sid: str, solution: Solution, field: str, start: float, target: float, guide: float) -> float | None:
+def _with_titrant(solution: Solution, where: _Titrant, x: float | np.ndarray) -> Solution:
+    if where.component is None:
+        return dataclasses.replace(solution, **{where.field: where.start + x})
+    comps = list(solution.components)
+    comps[where.component] = dataclasses.replace(comps[where.component], total=where.start + x)
+    return dataclasses.replace(solution, components=tuple(comps))
+
+
+def _shortcut_amount(sid: str, solution: Solution, where: _Titrant, target: float, guide: float) -> float | None:
     approx = CATALOGUE[sid]
 
     def diff(x: float) -> float | None:
         try:
-            s = _with_titrant(solution, field, start, x)
+            s = _with_titrant(solution, where, x)
             if not approx.applies(s):
                 return None
             return float(approx.ph(s)) - target
@@ -83,7 +100,7 @@ def _shortcut_amount(sid: str, solution: Solution, field: str, start: float, tar
             return None
 
     xs = guide * np.logspace(-4.0, 4.0, _SCAN) if guide > 0 else np.logspace(-12.0, 0.0, _SCAN)
-    xs = xs[xs <= TOTAL_ENGINE[1] - start]
+    xs = xs[(xs <= TOTAL_ENGINE[1] - where.start) & (where.start + xs >= TOTAL_ENGINE[0])]
     values = [diff(float(x)) for x in xs]
     for i in range(len(xs) - 1):
         a, b = values[i], values[i + 1]
@@ -119,20 +136,24 @@ def adjustment_result(spec: SolutionSpec, conditions: ConditionsSpec) -> Adjustm
     adj = spec.adjustment
     if adj is None:
         return None
-    field = "strong_base" if adj.titrant == "strong-base" else "strong_acid"
     solution = spec.to_solution(conditions)
-    start = float(getattr(solution, field)) - adj.amount
+    if adj.component is not None:
+        where = _Titrant("component", 0.0, adj.component)
+    else:
+        field = "strong_base" if adj.titrant == "strong-base" else "strong_acid"
+        where = _Titrant(field, float(getattr(solution, field)) - adj.amount)
     sid = next((s for s in spec.shortcuts if CATALOGUE[s].formula), None)
     amount = recipe = None
     if sid is not None:
         try:
-            amount = _shortcut_amount(sid, solution, field, start, adj.target_ph, adj.amount)
+            amount = _shortcut_amount(sid, solution, where, adj.target_ph, adj.amount)
             if amount is not None:
-                recipe = float(equilibrium(_with_titrant(solution, field, start, amount)).ph)
+                recipe = float(equilibrium(_with_titrant(solution, where, amount)).ph)
         except ChemistryError:
             amount = recipe = None
 
     def volume(x: float | None) -> float | None:
         return None if x is None or adj.stock is None else 1000.0 * x / adj.stock
 
-    return AdjustmentResult(adj.target_ph, adj.titrant, adj.amount, sid, amount, recipe, adj.stock, volume(adj.amount), volume(amount))
+    compound = spec.components[adj.component].compound if adj.component is not None else None
+    return AdjustmentResult(adj.target_ph, adj.titrant, adj.amount, sid, amount, recipe, adj.stock, volume(adj.amount), volume(amount), compound)

@@ -23,7 +23,10 @@ adds by the exact model) the volume of stock per litre is
 
 with *n* the amount per litre of final solution [mol/L]; the volume change on
 mixing is neglected (common practice, no source): the solution is made up to
-the mark after the additions.
+the mark after the additions. A weak titrant (``adjusted_to.with`` a substance
+and its form) is the solution's last component; it is listed as a titrant,
+not among the components to weigh, with its form's compound, molar mass and
+the mass it amounts to (m = n·M, for weighing it instead of a stock).
 """
 
 from __future__ import annotations
@@ -100,6 +103,9 @@ class TitrantVolume:
         Volume of stock per litre of final solution [mL/L], when a stock is stated.
     target_ph : float or None
         For ``adjustment``: the target pH.
+    weighed : WeighedComponent or None
+        A weak titrant: its form's compound, molar mass and mass per litre
+        (the component that holds it); None for a strong acid or base.
     """
 
     role: str
@@ -108,6 +114,7 @@ class TitrantVolume:
     stock_mol_per_l: float | None
     volume_ml_per_l: float | None
     target_ph: float | None = None
+    weighed: WeighedComponent | None = None
 
 
 @dataclass(frozen=True)
@@ -164,8 +171,9 @@ def preparation(spec: SolutionSpec) -> Preparation:
     >>> p.titrants[0].volume_ml_per_l  # 1 mmol/L of a 0.1 mol/L stock
     10.0
     """
-    components = tuple(_weighed(i, c) for i, c in enumerate(spec.components))
     adj = spec.adjustment
+    held = adj.component if adj is not None else None
+    components = tuple(_weighed(i, c) for i, c in enumerate(spec.components) if i != held)
     titrants: list[TitrantVolume] = []
     for role, total, stock in (("strong_acid", spec.strong_acid, spec.strong_acid_stock), ("strong_base", spec.strong_base, spec.strong_base_stock)):
         titrant = role.replace("_", "-")
@@ -173,5 +181,6 @@ def preparation(spec: SolutionSpec) -> Preparation:
         if stated > 1e-12 * max(total, 1e-300):
             titrants.append(TitrantVolume(role, titrant, stated, stock, _volume(stated, stock)))
     if adj is not None:
-        titrants.append(TitrantVolume("adjustment", adj.titrant, adj.amount, adj.stock, _volume(adj.amount, adj.stock), adj.target_ph))
+        weighed = _weighed(held, spec.components[held]) if held is not None else None
+        titrants.append(TitrantVolume("adjustment", adj.titrant, adj.amount, adj.stock, _volume(adj.amount, adj.stock), adj.target_ph, weighed))
     return Preparation(components, tuple(titrants))

@@ -69,7 +69,7 @@ from numpy.typing import ArrayLike, NDArray
 from .activity import BATES_GUGGENHEIM_BA, ActivityModelId, activity_model
 from .carbonate import carbonic_pka, log_henry
 from .errors import ConvergenceError, InputRangeError
-from .species import Number, Solution
+from .species import Component, Number, Solution
 from .water import debye_huckel_a, debye_huckel_b
 from .water import pkw as pkw_iapws_01mpa
 
@@ -756,31 +756,52 @@ def buffer_capacity(solution: Solution, exact: Equilibrium | None = None) -> Num
 
 
 TITRANTS = ("strong-base", "strong-acid")
-"""The titrants :func:`titrant_for_ph` knows: monovalent, fully dissociated."""
+"""The strong titrants :func:`titrant_for_ph` knows by name: monovalent, fully dissociated."""
+Q_FLOOR = 1e-9
+"""Smallest |q| [charge per mole] a weak titrant may carry at the target: below it
+the titrant hardly changes the charge balance there and cannot move the pH."""
 
 
-def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str = "strong-base", *, tolerance: float = TOLERANCE) -> Number:
-    r"""Amount of strong base or acid that brings the solution to a target pH.
+def _titrant_kernel(titrant: Component, solution: Solution, shape: tuple[int, ...]) -> _Comp:
+    """A weak titrant flattened for the kernels (its total is set per iteration)."""
+    log_k = [_flat(-np.asarray(pk), shape) for pk in titrant.protolyte.pka_at(solution.temperature)]
+    return _Comp(np.zeros(()), log_k, titrant.removed, titrant.protolyte.charge)
 
-    The titrant enters the charge balance linearly (P gains C_b, N gains C_a),
-    so at the target h the amount is read off the balance in closed form:
+
+def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str | Component = "strong-base", *, tolerance: float = TOLERANCE) -> Number:
+    r"""Amount of titrant that brings the solution to a target pH.
+
+    The titrant enters the charge balance linearly. Per mole added it
+    contributes its net charge at h, q(h), to P − N: for a strong base
+    q = +1 (P gains C_b), for a strong acid q = −1 (N gains C_a), and for a
+    weak acid–base substance added in form r (r protons removed from the
+    fully protonated form, its counter-ions inert)
 
     .. math::
-        \Delta C_b = N(h^*) - P(h^*),\qquad \Delta C_a = P(h^*) - N(h^*)
+        q(h) = \sum_j (r - j)\,\alpha_j(h) = r - \bar r(h),
 
-    with h* = 10^(−pH*)/γ_H. With an activity model the titrant's own ions
-    change the ionic strength, so this is repeated at the ionic strength of the
-    titrated solution until it no longer changes (a fixed-point iteration).
-    Counter-ions of the titrant (Na⁺, Cl⁻) are inert.
+    the charges of its states weighted by their fractions plus those of its
+    counter-ions. At the target h* = 10^(−pH*)/γ_H the balance
+    P(h*) − N(h*) + x q(h*) = 0 gives the amount in closed form,
+
+    .. math::
+        x = \frac{N(h^*) - P(h^*)}{q(h^*)}.
+
+    With an activity model the titrant's own ions change the ionic strength,
+    so this is repeated at the ionic strength of the titrated solution until
+    it no longer changes (a fixed-point iteration).
 
     Parameters
     ----------
     solution : Solution
-        The solution before adjustment (it may already hold strong acid or base).
+        The solution before adjustment (it may already hold strong acid or base,
+        or the titrant's own substance).
     target_ph : float or array
         Target pH on the activity scale (the concentration scale when ideal).
-    titrant : str
-        ``strong-base`` or ``strong-acid``.
+    titrant : str or Component
+        ``strong-base``, ``strong-acid``, or a weak titrant: a
+        :class:`~dossier.chemistry.Component` whose protolyte and ``removed``
+        (the form added) are used; its ``total`` is ignored.
 
     Returns
     -------
@@ -790,8 +811,9 @@ def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str = "str
     Raises
     ------
     InputRangeError
-        Unknown titrant, or a target this titrant cannot reach (the solution is
-        already beyond it: it would need the other titrant).
+        Unknown titrant; a target this titrant cannot reach (the solution is
+        already beyond it: it needs a titrant that pushes the other way); or a
+        weak titrant whose net charge at the target is nearly zero (|q| < 1e-9).
     ConvergenceError
         If the ionic-strength iteration does not settle.
 
@@ -804,9 +826,16 @@ def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str = "str
     >>> ac = Protolyte("acetic", (4.756,))
     >>> round(titrant_for_ph(Solution([Component(ac, 0.1)], pkw=14.0), 4.756), 5)
     0.04998
+
+    The same acid to the same pH with sodium acetate (form 1): about as much
+    acetate as acid, 0.1 mol/L (Henderson–Hasselbalch):
+
+    >>> round(titrant_for_ph(Solution([Component(ac, 0.1)], pkw=14.0), 4.756, Component(ac, 1.0, 1)), 3)
+    0.1
     """
-    if titrant not in TITRANTS:
-        raise InputRangeError("titrant", f"must be one of {', '.join(TITRANTS)}; got {titrant!r}")
+    weak = isinstance(titrant, Component)
+    if not weak and titrant not in TITRANTS:
+        raise InputRangeError("titrant", f"must be one of {', '.join(TITRANTS)} or a component; got {titrant!r}")
     target = np.asarray(target_ph, dtype=np.float64)
     if not np.all(np.isfinite(target)) or np.any((target < 0.0) | (target > 16.0)):
         raise InputRangeError("target_ph", f"must be a finite pH in 0 … 16; got {target_ph!r}")
@@ -816,19 +845,32 @@ def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str = "str
     model = activity_model(solution.activity)
     ideal = model.id == ActivityModelId.IDEAL
     sign = 1.0 if titrant == "strong-base" else -1.0
+    t_comp = _titrant_kernel(titrant, solution, shape) if weak else None  # type: ignore[arg-type]
     f = np.zeros(tgt.shape)
     amount = np.zeros(tgt.shape)
-    with np.errstate(over="ignore", under="ignore"):
+    q = np.asarray(sign)
+    with np.errstate(over="ignore", under="ignore", divide="ignore", invalid="ignore"):
         for _ in range(_MAX_OUTER):
             kw, ks, comps, ca, cb = _kernel_args(block, f)
             x = (-tgt - f) * LN10
             _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
-            new = sign * (n - p)
-            if ideal:
+            extra_ca = extra_cb = 0.0
+            if t_comp is not None:
+                _, (t_ks,) = _conditional(block.log_kw, [t_comp], f)
+                t_alpha = _fractions(t_ks, np.exp(-x))
+                q = t_comp.removed - sum(j * a for j, a in enumerate(t_alpha) if j)
+                new = np.where(np.abs(q) >= Q_FLOOR, (n - p) / q, np.nan)
+            else:
+                new = sign * (n - p)
+            if ideal or not np.all(np.isfinite(new)):
                 amount = new
                 break
-            extra_cb, extra_ca = (np.maximum(new, 0.0), 0.0) if sign > 0 else (0.0, np.maximum(new, 0.0))
-            i_new = _ionic_strength(x, kw, alphas, comps, ca + extra_ca, cb + extra_cb, block.background)
+            if t_comp is not None:
+                t_comp.total = np.maximum(new, 0.0)
+                i_new = _ionic_strength(x, kw, alphas + [t_alpha], comps + [t_comp], ca, cb, block.background)
+            else:
+                extra_cb, extra_ca = (np.maximum(new, 0.0), 0.0) if sign > 0 else (0.0, np.maximum(new, 0.0))
+                i_new = _ionic_strength(x, kw, alphas, comps, ca + extra_ca, cb + extra_cb, block.background)
             f_new = model.unit_log_gamma(np.sqrt(i_new), i_new, block.a_dh, block.ba, float(solution.davies_coefficient))
             done = np.all(np.abs(new - amount) <= tolerance * np.maximum(np.abs(new), 1e-300)) and np.all(np.abs(f_new - f) <= tolerance)
             amount, f = new, f_new
@@ -836,8 +878,19 @@ def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str = "str
                 break
         else:
             raise ConvergenceError("titrant_for_ph: the ionic-strength iteration did not converge")
+
+    def first(bad: NDArray[np.bool_]) -> float:
+        return float(np.ravel(np.broadcast_to(tgt, np.shape(bad)))[int(np.flatnonzero(np.ravel(bad))[0])]) if np.ndim(bad) else float(tgt)
+
+    name = f"{titrant.protolyte.name} (form {titrant.removed})" if weak else titrant  # type: ignore[union-attr]
+    flat_q = np.broadcast_to(q, np.shape(amount))
+    if weak and np.any(np.abs(flat_q) < Q_FLOOR):
+        raise InputRangeError("target_ph", f"pH {first(np.abs(flat_q) < Q_FLOOR):g} cannot be reached with {name}: "
+                              "at that pH the titrant stays almost entirely in the form added, so it does not change the charge balance")
     if np.any(amount < 0.0):
-        other = "strong-acid" if titrant == "strong-base" else "strong-base"
-        first = float(np.ravel(tgt)[int(np.flatnonzero(np.ravel(amount) < 0.0)[0])]) if np.ndim(tgt) else float(tgt)
-        raise InputRangeError("target_ph", f"pH {first:g} cannot be reached with {titrant}: the solution is already beyond it (it needs {other})")
+        if weak:
+            other = "a titrant that moves the pH the other way"
+        else:
+            other = "strong-acid" if titrant == "strong-base" else "strong-base"
+        raise InputRangeError("target_ph", f"pH {first(amount < 0.0):g} cannot be reached with {name}: the solution is already beyond it (it needs {other})")
     return _shaped_out(amount, shape)

@@ -20,6 +20,7 @@ from ..chemistry import (
     CATALOGUE,
     ActivityModelId,
     ChemistryError,
+    Component,
     ConvergenceError,
     InputRangeError,
     Solution,
@@ -51,7 +52,7 @@ from pydantic import ValidationError
 from .forms import FormError, protons_removed
 from .quality import Concern, DataFlag, Quantity, data_flags, farthest_temperature
 from .substances import STATUS_MEANINGS
-from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn, StrongIn
+from .schema import Co2Open, ComponentIn, Conditions, MethodFile, PkaIn, ShortcutIn, SolutionIn, StrongIn, TitrantIn
 from .substances import Substance, SubstanceTable, TableCompound, TableForm
 from .units import UnitError, format_concentration, parse_concentration, parse_pressure
 from .yamlpos import LoadedYaml
@@ -419,7 +420,7 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
         ctx.add(loc, f"cannot be solved as given: {exc}")
         return None
     if sol.adjusted_to is not None:
-        spec = _adjusted(ctx, loc + ("adjusted_to",), sol, spec, engine_solution, conditions)
+        spec = _adjusted(ctx, loc + ("adjusted_to",), sol, spec, engine_solution, conditions, refs, cited)
         if spec is None:
             return None
         engine_solution = spec.to_solution(conditions)
@@ -631,8 +632,10 @@ def _stock(ctx: _Ctx, loc: Loc, key: str, text: str | None, amount: float, tempe
     return stock
 
 
-def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution: Solution, conditions: ConditionsSpec) -> SolutionSpec | None:
-    """The solution with the exact amount of titrant that reaches ``adjusted_to.ph``."""
+def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution: Solution, conditions: ConditionsSpec,
+              refs: set[str], cited: set[str]) -> SolutionSpec | None:
+    """The solution with the exact amount of titrant that reaches ``adjusted_to.ph``: a strong
+    titrant joins ``strong_base`` (``strong_acid``), a weak one becomes the last component."""
     adj = sol.adjusted_to
     assert adj is not None
     stock = None
@@ -640,18 +643,58 @@ def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution
         stock = _concentration(ctx, loc + ("stock",), adj.stock, None, conditions.temperature)
         if stock is None:
             return None
+    weak = None
+    if isinstance(adj.with_, TitrantIn):
+        weak = _titrant(ctx, loc + ("with",), adj.with_, sol, conditions, refs, cited)
+        if weak is None:
+            return None
     try:
-        amount = float(titrant_for_ph(solution, adj.ph, adj.with_))
+        titrant = Component(weak.protolyte(), 1.0, weak.removed) if weak is not None else adj.with_
+        amount = float(titrant_for_ph(solution, adj.ph, titrant))  # type: ignore[arg-type]
     except (InputRangeError, ConvergenceError) as exc:
         ctx.add(loc + ("ph",), f"cannot be reached: {exc.message if isinstance(exc, InputRangeError) else exc}")
+        return None
+    lo, hi = CONCENTRATION_LIMITS
+    if not lo <= amount <= hi and not (weak is None and amount == 0.0):
+        ctx.add(loc + ("ph",), f"cannot be reached: it needs {amount:.3g} mol/L of titrant, outside the allowed {lo:g} … {hi:g} mol/L")
         return None
     if stock is not None and amount > stock:
         ctx.add(loc + ("stock",), f"the titrant needed ({format_concentration(amount)}) is more than the stock itself ({adj.stock}): no volume of it can deliver that")
         return None
-    adjustment = AdjustmentSpec(adj.ph, adj.with_, amount, stock, adj.stock)
+    if weak is not None:
+        lead, (w_lo, w_hi) = spec.lead_concentration, spec.working_range
+        text = format_concentration(amount)
+        added = dataclasses.replace(
+            weak, concentration=amount, concentration_text=text, tolerance=0.0, tolerance_text="",
+            working_range=(amount * w_lo / lead, amount * w_hi / lead),
+            working_range_text=(format_concentration(amount * w_lo / lead), format_concentration(amount * w_hi / lead)),
+        )
+        adjustment = AdjustmentSpec(adj.ph, f"{weak.substance}, form {weak.removed}", amount, stock, adj.stock, component=len(spec.components))
+        return dataclasses.replace(spec, components=spec.components + (added,), adjustment=adjustment)
+    adjustment = AdjustmentSpec(adj.ph, adj.with_, amount, stock, adj.stock)  # type: ignore[arg-type]
     if adj.with_ == "strong-base":
         return dataclasses.replace(spec, strong_base=spec.strong_base + amount, adjustment=adjustment)
     return dataclasses.replace(spec, strong_acid=spec.strong_acid + amount, adjustment=adjustment)
+
+
+def _titrant(ctx: _Ctx, loc: Loc, t: TitrantIn, sol: SolutionIn, conditions: ConditionsSpec, refs: set[str], cited: set[str]) -> ComponentSpec | None:
+    """A weak titrant checked as a component (its amount still to be found). Without ``pka`` it
+    takes the pKa entries (and charge) of the solution's component of the same substance."""
+    pka, charge = t.pka, t.charge
+    if pka is None:
+        same = next((c for c in sol.components if c.substance == t.substance), None)
+        if same is None:
+            if ctx.table.get(t.substance) is None:
+                ctx.add(loc + ("substance",), f"{t.substance!r} is neither in the substance table{did_you_mean(t.substance, list(ctx.table.substances))} "
+                                              "nor a component of this solution: use a table id (see `dossier substances`), or give charge and every pKa value")
+            else:
+                ctx.add(loc + ("substance",), f"{t.substance!r} is not a component of this solution: give its pka entries "
+                                              "(one per step, each with its uncertainty), as for a component")
+            return None
+        pka, charge = same.pka, same.charge if charge is None else charge
+    as_component = ComponentIn(substance=t.substance, form=t.form, concentration="1 mol/L", working_range=["0.5 mol/L", "2 mol/L"],
+                               charge=charge, pka=pka)
+    return _component(ctx, loc, as_component, refs, conditions, cited)
 
 
 def _check_solutions(ctx: _Ctx, indexed: list[tuple[int, SolutionIn]], refs: set[str], conditions: ConditionsSpec, cited: set[str]) -> list[SolutionSpec | None]:

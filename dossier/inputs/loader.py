@@ -205,6 +205,9 @@ def _message(err: dict[str, Any]) -> str:
             hint = f" (did you mean {close[0]!r}?)" if close else ""
         if loc == ("format",):
             return f"must be {FORMAT!r} (the format version this tool reads); got {_show(value)}"
+        if loc[-2:] == ("adjusted_to", "with"):
+            return (f"must be one of {', '.join(choices)}, or a substance and its form ({{substance: phosphoric-acid, form: 2}}); "
+                    f"got {_show(value)}{hint}")
         return f"must be one of {', '.join(choices)}; got {_show(value)}{hint}"
     if kind == "string_pattern_mismatch":
         return f"must be {ID_RULE}; got {_show(value)}"

@@ -233,14 +233,18 @@ class AdjustmentSpec:
     target_ph : float
         Target pH (activity scale).
     titrant : str
-        ``strong-base`` or ``strong-acid``.
+        ``strong-base``, ``strong-acid``, or a weak titrant as ``<substance>, form <protons removed>``
+        (``phosphoric-acid, form 2``).
     amount : float
         Titrant added by the exact model [mol per litre of final solution];
-        already included in the solution's ``strong_base`` or ``strong_acid``.
+        already included in the solution's ``strong_base`` or ``strong_acid``,
+        or, for a weak titrant, the total of the component ``component``.
     stock : float or None
         Stock concentration [mol/L], when stated.
     stock_text : str or None
         The stock as written.
+    component : int or None
+        Index of the component that holds a weak titrant (the last one); None for a strong titrant.
     """
 
     target_ph: float
@@ -248,6 +252,12 @@ class AdjustmentSpec:
     amount: float
     stock: float | None = None
     stock_text: str | None = None
+    component: int | None = None
+
+    @property
+    def strong(self) -> bool:
+        """True for ``strong-base`` / ``strong-acid``, False for a weak titrant (a component)."""
+        return self.component is None
 
 @dataclass(frozen=True)
 class StrongAlone:

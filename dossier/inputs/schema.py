@@ -28,6 +28,7 @@ __all__ = [
     "Co2Closed",
     "SolutionIn",
     "AdjustedTo",
+    "TitrantIn",
     "StrongIn",
     "ComponentIn",
     "PkaIn",
@@ -242,12 +243,31 @@ class ComponentIn(_Model):
         return parse_form(v)
 
 
+class TitrantIn(_Model):
+    """A weak titrant: a substance and the form it is added in (the keys of a component)."""
+
+    substance: ShortText = Field(description="Substance-table id (see `dossier substances`) or a name of your own (then give charge and every pKa value).")
+    form: Form
+    charge: int | None = Field(None, ge=limits.CHARGE[0], le=limits.CHARGE[1], description="Charge of the fully protonated form; taken from the table for table substances.")
+    pka: list[PkaIn] | None = Field(
+        None, min_length=1, max_length=limits.MAX_STEPS,
+        description="One entry per ionization step, as for a component. Leave out when the solution has a component of the same substance: "
+                    "the titrant then takes that component's pKa values (one substance, one set of constants).",
+    )
+
+    @field_validator("form", mode="before")
+    @classmethod
+    def _form(cls, v: Any) -> Any:
+        return parse_form(v)
+
+
 class AdjustedTo(_Model):
     """'Adjust to pH X with …': the titrant is added until the exact pH reaches the target."""
 
     ph: float = Field(ge=limits.TARGET_PH[0], le=limits.TARGET_PH[1], allow_inf_nan=False, json_schema_extra=_unit("pH"), description="Target pH (activity scale, as a pH meter reads it).")
-    with_: Literal["strong-base", "strong-acid"] = Field(
-        alias="with", description="Titrant: strong-base (e.g. NaOH) or strong-acid (e.g. HCl), monovalent and fully dissociated.",
+    with_: Literal["strong-base", "strong-acid"] | TitrantIn = Field(
+        alias="with", description="Titrant: strong-base (e.g. NaOH) or strong-acid (e.g. HCl), monovalent and fully dissociated; "
+        "or a weak acid–base substance and its form, {substance: phosphoric-acid, form: 2}.",
     )
     stock: ConcentrationText | None = Field(None, description="Concentration of the titrant stock, with unit, for the volume per litre (optional).")
 
@@ -326,7 +346,8 @@ class SolutionIn(_Model):
     )
     adjusted_to: AdjustedTo | None = Field(
         None,
-        description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",
+        description="'Adjust to pH X with …': {ph: 4.75, with: strong-base, stock: 1 mol/L}, or with a substance and its form, "
+        "{ph: 7.2, with: {substance: phosphoric-acid, form: 2}}. The exact amount of titrant is added to the solution as listed; the analyses use the adjusted solution.",
     )
     strong_acid_stock: ConcentrationText | None = Field(
         None, description="Concentration of the stock the strong acid is measured from, with unit: the preparation table gives its volume per litre.",

@@ -143,3 +143,92 @@ def test_titrant_refuses_an_unreachable_target_and_an_unknown_titrant() -> None:
         titrant_for_ph(s, 2.0, "strong-base")
     with pytest.raises(InputRangeError, match="titrant"):
         titrant_for_ph(s, 5.0, "sodium hydroxide")
+
+
+# ---------------------------------------------------------------- a weak titrant (a substance and its form)
+# Phosphoric acid at 25 °C, I = 0: pKa 2.148, 7.198, 12.35 (Bates & Acree 1943;
+# Bates 1951; Vanderzee & Quist 1961), ΔH° of step 2 3.6 kJ/mol — recalled from memory.
+PHOSPHATE = Protolyte("phosphoric", (2.148, 7.198, 12.35), dh=(-7.9, 3.6, 16.0))
+
+WEAK_CASES = {
+    # NaH2PO4 titrated with Na2HPO4 (the everyday "mix the two phosphates to pH 7.2")
+    "phosphate-1-with-2": ([Component(PHOSPHATE, 0.01, removed=1)], Component(PHOSPHATE, 1.0, removed=2), 7.2, 25.0),
+    "phosphate-at-37C": ([Component(PHOSPHATE, 0.05, removed=1)], Component(PHOSPHATE, 1.0, removed=2), 7.4, 37.0),
+    # Na2HPO4 titrated down with phosphoric acid
+    "phosphate-2-with-acid": ([Component(PHOSPHATE, 0.02, removed=2)], Component(PHOSPHATE, 1.0, removed=0), 6.5, 25.0),
+    # TRIS base titrated with TRIS·HCl (form 0 of the cation)
+    "tris-with-its-salt": ([Component(TRIS, 0.05, removed=1)], Component(TRIS, 1.0, removed=0), 8.0, 25.0),
+    # acetic acid titrated with a different substance: trisodium phosphate
+    "acetic-with-phosphate": ([Component(ACETIC, 0.1)], Component(PHOSPHATE, 1.0, removed=3), 5.0, 25.0),
+}
+
+
+def _mp_case(comps: list[Component], titrant: Component, amount: float, model: str, temperature: float):  # noqa: ANN202
+    from . import mp_reference as ref
+
+    def mp_comp(c: Component, total: float) -> ref.Comp:
+        p = c.protolyte
+        return ref.Comp(list(p.pka), total, c.removed, p.charge, list(p.dh) if p.dh else None, list(p.dcp) if p.dcp else None)
+
+    parts = [mp_comp(c, float(c.total)) for c in comps] + [mp_comp(titrant, amount)]
+    return ref.Case(parts, temperature=temperature, activity=model)
+
+
+@pytest.mark.parametrize("model", ["ideal", "davies", "extended-debye-huckel"])
+@pytest.mark.parametrize("case", sorted(WEAK_CASES))
+def test_weak_titrant_amount_gives_the_target_by_the_50_digit_route(case: str, model: str) -> None:
+    # Independent check (mpmath, tests/chemistry/mp_reference.py): the solution made with
+    # the computed amount, solved from Σ z·c = 0 over every ion at 50 digits, has the target pH.
+    from . import mp_reference as ref
+
+    comps, titrant, target, temperature = WEAK_CASES[case]
+    s = Solution(comps, temperature=temperature, activity=model)
+    amount = titrant_for_ph(s, target, titrant)
+    assert amount > 0.0
+    ph = float(ref.solve(_mp_case(comps, titrant, amount, model, temperature))["ph"])
+    assert abs(ph - target) <= 1e-9
+
+
+def test_phosphate_buffer_from_the_two_salts_follows_henderson_hasselbalch() -> None:
+    # Textbook case (recalled): a phosphate buffer of pH 7.2 from NaH2PO4 and Na2HPO4.
+    # Henderson–Hasselbalch, pH = pKa2 + log([HPO4²⁻]/[H2PO4⁻]) (Henderson, Am. J.
+    # Physiol. 21, 173 (1908); Hasselbalch, Biochem. Z. 78, 112 (1916); e.g. D. C.
+    # Harris, Quantitative Chemical Analysis, ch. "Buffers" — recalled): ideal, at
+    # 10 mmol/L the amount ratio is 10^(pH − pKa2); [H⁺], [OH⁻] and the other two
+    # steps change it by far less than 0.1 %.
+    c = 0.01
+    s = Solution([Component(PHOSPHATE, c, removed=1)], pkw=14.0)
+    for target in (6.5, 7.2, 7.8):
+        x = titrant_for_ph(s, target, Component(PHOSPHATE, 1.0, removed=2))
+        assert x / c == pytest.approx(10 ** (target - 7.198), rel=1e-3)
+
+
+def test_weak_titrant_is_vectorized_and_matches_point_by_point() -> None:
+    s = Solution([Component(PHOSPHATE, 0.01, removed=1)], activity="davies")
+    na2hpo4 = Component(PHOSPHATE, 1.0, removed=2)
+    targets = np.array([6.0, 6.8, 7.2, 7.9])
+    amounts = titrant_for_ph(s, targets, na2hpo4)
+    assert amounts.shape == (4,) and np.all(np.diff(amounts) > 0)
+    for t, a in zip(targets, amounts):
+        assert titrant_for_ph(s, float(t), na2hpo4) == pytest.approx(a, rel=1e-12)
+
+
+def test_a_form_behaves_as_the_strong_titrant_where_it_is_fully_converted() -> None:
+    # Trisodium phosphate at pH 5 takes up two protons per mole (to H2PO4⁻), so
+    # acetic acid needs half as much of it as of NaOH: q = 3 − r̄ with r̄ = 1.005 there
+    # (the H3PO4 and HPO4²⁻ fractions, 0.14 % and 0.63 %), so to within 0.5 %.
+    s = Solution([Component(ACETIC, 0.1)], pkw=14.0)
+    na3po4 = titrant_for_ph(s, 5.0, Component(PHOSPHATE, 1.0, removed=3))
+    naoh = titrant_for_ph(s, 5.0, "strong-base")
+    assert 2.0 * na3po4 == pytest.approx(naoh, rel=5e-3)
+    assert 2.0 * na3po4 != pytest.approx(naoh, rel=1e-4)  # and not exactly: the fractions count
+
+
+def test_weak_titrant_refuses_the_wrong_direction_and_a_titrant_that_carries_no_charge_there() -> None:
+    s = Solution([Component(PHOSPHATE, 0.01, removed=1)])
+    with pytest.raises(InputRangeError, match="cannot be reached with phosphoric \\(form 2\\).*already beyond it"):
+        titrant_for_ph(s, 3.0, Component(PHOSPHATE, 1.0, removed=2))
+    # an acid of pKa 14 added as the acid is uncharged at pH 3 (q ≈ −1e-11): it cannot move the pH
+    inert = Component(Protolyte("very-weak", (14.0,)), 1.0, removed=0)
+    with pytest.raises(InputRangeError, match="does not change the charge balance"):
+        titrant_for_ph(Solution([Component(ACETIC, 0.01)]), 3.0, inert)

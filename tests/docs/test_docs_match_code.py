@@ -12,7 +12,7 @@ from dossier.cli import build_parser
 from dossier.inputs import schema
 
 ROOT = Path(__file__).resolve().parents[2]
-MODELS = [schema.MethodFile, schema.MethodInfo, schema.Acceptance, schema.Conditions, schema.SolutionIn, schema.ComponentIn, schema.PkaIn, schema.ShortcutIn, schema.AsWrittenIn, schema.ReferenceIn, schema.StrongIn]
+MODELS = [schema.MethodFile, schema.MethodInfo, schema.Acceptance, schema.Conditions, schema.SolutionIn, schema.ComponentIn, schema.PkaIn, schema.ShortcutIn, schema.AsWrittenIn, schema.ReferenceIn, schema.StrongIn, schema.TitrantIn]
 
 
 def read(name: str) -> str:
