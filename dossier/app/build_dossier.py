@@ -29,7 +29,7 @@ from ..analysis.ledger import Ledger
 from ..analysis.method import AnalysisSettings, MethodAnalysis
 from ..audit.cache import Cache, dossier_key, method_key
 from ..audit.diff import DossierDiff, NotADossier, diff_ledgers, read_ledgers
-from ..audit.signatures import check_signatures
+from ..audit.signatures import check_signatures, retire_signatures
 from ..chemistry import solver
 from ..inputs.loader import load_paths
 from ..inputs.model import Method
@@ -222,6 +222,8 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
             old_fingerprint=previous_identity[0], old_built=previous_identity[1])
         files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
         written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings)
+        if fingerprint is not None:
+            retire_signatures(out, fingerprint)  # they signed the build this one replaced (listed on its pages)
         if store:
             store.prune()  # what this build did not use
     return BuildOutcome(True, problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed, fingerprint)

@@ -19,6 +19,7 @@ from __future__ import annotations
 import base64
 import hashlib
 import json
+import os
 import stat
 from dataclasses import dataclass
 from datetime import datetime, timezone
@@ -33,7 +34,12 @@ from ..publish.writer import write_one_file
 __all__ = [
     "MEANINGS", "KEY_FORMAT", "PUBLIC_KEY_FORMAT", "SIGNATURE_FORMAT", "SignatureError", "Statement", "SignatureCheck",
     "make_key", "load_key", "sign_dossier", "check_signatures", "signatures_folder", "public_key_path",
+    "EARLIER", "retire_signatures", "earlier_signatures",
 ]
+
+EARLIER = "earlier"
+"""Sub-folder of the signatures folder where a rebuild moves the signatures of the
+build it replaced (``NAME.signatures/earlier/FINGERPRINT/``)."""
 
 MEANINGS = ("prepared", "reviewed", "approved")
 """What a signature says the signer did with the dossier."""
@@ -245,6 +251,40 @@ def check_signatures(dossier: Path, fingerprint: str | None, manifest_hash: str 
     if not folder.is_dir():
         return ()
     return tuple(_check_one(f, folder.parent, fingerprint, manifest_hash) for f in sorted(folder.glob("*.json")))
+
+
+def retire_signatures(dossier: Path, fingerprint: str) -> tuple[Path, ...]:
+    """Move the signatures of earlier builds out of the way of a new build.
+
+    Every readable signature beside ``dossier`` whose signed fingerprint is
+    not ``fingerprint`` (the build just published) moves to
+    ``NAME.signatures/earlier/SIGNED-FINGERPRINT/``: it signed the build this
+    one replaced, and the new build's provenance page and signature page list
+    it as such. A signature that cannot be read or does not check stays where
+    it is, so that ``verify`` keeps reporting it.
+
+    Returns
+    -------
+    tuple of Path
+        Where the moved signatures are now.
+    """
+    moved = []
+    for c in check_signatures(dossier, None, None):
+        if c.statement is None or not c.valid or c.statement.fingerprint == fingerprint:
+            continue
+        source = signatures_folder(dossier).parent / c.file
+        target_dir = signatures_folder(dossier) / EARLIER / c.statement.fingerprint
+        target_dir.mkdir(parents=True, exist_ok=True)
+        target = target_dir / source.name
+        os.replace(source, target)
+        moved.append(target)
+    return tuple(moved)
+
+
+def earlier_signatures(dossier: Path) -> tuple[Path, ...]:
+    """The signatures a rebuild moved aside (:func:`retire_signatures`)."""
+    folder = signatures_folder(dossier) / EARLIER
+    return tuple(sorted(folder.glob("*/*.json"))) if folder.is_dir() else ()
 
 
 def _check_one(path: Path, base: Path, fingerprint: str | None, manifest_hash: str | None) -> SignatureCheck:

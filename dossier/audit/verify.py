@@ -39,7 +39,7 @@ from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
 from .diff import NotADossier, read_ledger
 from .numbers import (ABS_TOL, REL_TOL, Mismatch, PdfTextUnavailable, close, compare_csv, compare_json, compare_workbook, ledger_lines,
                       page_numbers, pdf_linked_numbers, shown_matches)
-from .signatures import SignatureCheck, check_signatures, manifest_sha256
+from .signatures import EARLIER, SignatureCheck, check_signatures, earlier_signatures, manifest_sha256, signatures_folder
 
 __all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "REL_TOL", "ABS_TOL"]
 
@@ -130,6 +130,9 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     if methods is not None:
         mm += _check_method_files(manifest, methods)
     signed = check_signatures(out, manifest.fingerprint(), manifest_sha256(out))
+    if earlier := earlier_signatures(out):
+        notes.append(f"{len(earlier)} signature(s) of earlier builds kept in {signatures_folder(out).name}/{EARLIER}/ (moved aside by a rebuild; "
+                     "they do not apply to this build)")
     mm += [Mismatch(s.file, "signature", s.problem) for s in signed if not s.applies]
     return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked, manifest.fingerprint(), signed)
 

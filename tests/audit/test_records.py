@@ -197,8 +197,27 @@ def test_a_rebuilt_dossier_shows_that_earlier_signatures_no_longer_apply(copy: P
     provenance = (copy / "provenance.html").read_text(encoding="utf-8")
     assert "Signatures recorded before this build: they signed an earlier build and do not apply to this one" in provenance
     assert old in provenance and "A. Analyst" in provenance
+    # the rebuild moved the earlier signature aside: verify passes, says so, and nothing signs the new build
+    moved = list((tmp_path / "copy.signatures" / "earlier" / old).glob("*.json"))
+    assert len(moved) == 1 and not list((tmp_path / "copy.signatures").glob("*.json"))
     report = verify(copy)
-    assert not report.ok and "the dossier changed since it was signed" in str(report.mismatches[-1])
+    assert report.ok and report.signatures == (), report.mismatches
+    assert any("signature(s) of earlier builds" in n for n in report.notes)
+    # signing the new build: verify checks that one only
+    assert dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "approved", cwd=tmp_path).returncode == 0
+    report = verify(copy)
+    assert report.ok and len(report.signatures) == 1 and report.signatures[0].applies
+
+
+def test_a_signature_left_beside_a_changed_dossier_fails_verify(copy: Path, tmp_path: Path) -> None:
+    """Without a rebuild by the tool (files edited and the manifest re-sealed), the signature stays and no longer applies."""
+    assert dossier_cli("keygen", "ana.key", "--name", "A. Analyst", cwd=tmp_path).returncode == 0
+    assert dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "approved", cwd=tmp_path).returncode == 0
+    page = copy / "references.html"
+    page.write_text(page.read_text(encoding="utf-8").replace("<h1>", "<h1>Edited: ", 1), encoding="utf-8")
+    forge(copy, "references.html")
+    report = verify(copy)
+    assert not report.ok and any("the dossier changed since it was signed" in str(m) for m in report.mismatches)
 
 
 # ---------------------------------------------------------------- every published number
