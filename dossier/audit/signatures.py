@@ -19,7 +19,6 @@ from __future__ import annotations
 import base64
 import hashlib
 import json
-import os
 import stat
 from dataclasses import dataclass
 from datetime import datetime, timezone
@@ -29,7 +28,7 @@ from typing import Any
 from ..layout import LAYOUT
 from ..problems import UserError
 from ..publish.manifest import Manifest
-from ..publish.writer import write_one_file
+from ..publish.writer import move_one_file, write_one_file
 
 __all__ = [
     "MEANINGS", "KEY_FORMAT", "PUBLIC_KEY_FORMAT", "SIGNATURE_FORMAT", "SignatureError", "Statement", "SignatureCheck",
@@ -273,11 +272,7 @@ def retire_signatures(dossier: Path, fingerprint: str) -> tuple[Path, ...]:
         if c.statement is None or not c.valid or c.statement.fingerprint == fingerprint:
             continue
         source = signatures_folder(dossier).parent / c.file
-        target_dir = signatures_folder(dossier) / EARLIER / c.statement.fingerprint
-        target_dir.mkdir(parents=True, exist_ok=True)
-        target = target_dir / source.name
-        os.replace(source, target)
-        moved.append(target)
+        moved.append(move_one_file(source, signatures_folder(dossier) / EARLIER / c.statement.fingerprint / source.name))
     return tuple(moved)
 
 

@@ -13,7 +13,7 @@ import re
 from dataclasses import dataclass, field
 from pathlib import Path, PurePosixPath
 
-__all__ = ["Writer", "UnsafePath", "WrittenTwice", "write_one_file"]
+__all__ = ["Writer", "UnsafePath", "WrittenTwice", "write_one_file", "move_one_file"]
 
 _RESERVED = re.compile(r"^(con|prn|aux|nul|com[0-9]|lpt[0-9])(\..*)?$", re.IGNORECASE)
 
@@ -107,3 +107,19 @@ def write_one_file(path: Path, data: bytes, *, overwrite: bool = False, mode: in
         if tmp.exists():
             tmp.unlink()
     return path
+
+
+def move_one_file(source: Path, target: Path) -> Path:
+    """Move a single file outside a build (a signature of an earlier build) in one step.
+
+    The target's folder is made when missing; an existing target is replaced.
+
+    Raises
+    ------
+    OSError
+        When the folder cannot be made or the file moved.
+    """
+    target = Path(target)
+    target.parent.mkdir(parents=True, exist_ok=True)
+    os.replace(source, target)
+    return target
