@@ -651,8 +651,14 @@ def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution
     try:
         titrant = Component(weak.protolyte(), 1.0, weak.removed) if weak is not None else adj.with_
         amount = float(titrant_for_ph(solution, adj.ph, titrant))  # type: ignore[arg-type]
-    except (InputRangeError, ConvergenceError) as exc:
-        ctx.add(loc + ("ph",), f"cannot be reached: {exc.message if isinstance(exc, InputRangeError) else exc}")
+    except InputRangeError as exc:
+        ctx.add(loc + ("ph",), f"cannot be reached: {exc.message}")
+        return None
+    except ConvergenceError:
+        lo, hi = CONCENTRATION_LIMITS
+        ctx.add(loc + ("ph",), f"cannot be reached with this titrant: the amount needed keeps growing with the ionic strength it adds, "
+                               f"beyond the allowed {lo:g} … {hi:g} mol/L (the target is too far past the titrant's own pKa); "
+                               "choose a stronger titrant or another target")
         return None
     lo, hi = CONCENTRATION_LIMITS
     if not lo <= amount <= hi and not (weak is None and amount == 0.0):
