@@ -405,6 +405,8 @@ def _solution(ctx: _Ctx, loc: Loc, sol: SolutionIn, refs: set[str], conditions: 
                 "not in proportion to the first component's: the analyses dilute or concentrate the whole solution "
                 "together over the first component's working range",
             )
+    if not _one_set_of_constants(ctx, loc, comps):  # type: ignore[arg-type]
+        return None
     claims = _claims(ctx, loc, sol.shortcuts, comps[0] if comps else None)  # type: ignore[arg-type]
     if claims is None:
         return None
@@ -614,6 +616,29 @@ def _within_model_range(ctx: _Ctx, loc: Loc, spec: SolutionSpec, conditions: Con
     return ok
 
 
+def _pka_clash(a: ComponentSpec, b: ComponentSpec) -> list[tuple[int, float, float]]:
+    """The steps (index, a's, b's thermodynamic pKa) where two components of one substance disagree."""
+    if not a.protolyte().is_same_substance(b.protolyte()):
+        return []
+    return [(k, p.thermodynamic, q.thermodynamic) for k, (p, q) in enumerate(zip(a.pka, b.pka)) if abs(p.thermodynamic - q.thermodynamic) > 1e-9]
+
+
+def _one_set_of_constants(ctx: _Ctx, loc: Loc, comps: list[ComponentSpec]) -> bool:
+    """One substance added in two forms has one set of pKa values: an error at the later
+    component whose thermodynamic pKa values differ from an earlier one's."""
+    ok = True
+    for j, comp in enumerate(comps):
+        for i in range(j):
+            if clash := _pka_clash(comps[i], comp):
+                shown = "; ".join(f"step {k + 1}: {x:.4g} vs {y:.4g}" for k, x, y in clash)
+                ctx.add(loc + ("components", j, "pka"),
+                        f"{comp.name} is also component {i + 1} with other pKa values ({shown}, thermodynamic, 25 °C): one substance "
+                        "has one set of constants; state the same values in both, or leave them to the substance table")
+                ok = False
+                break
+    return ok
+
+
 def _stock(ctx: _Ctx, loc: Loc, key: str, text: str | None, amount: float, temperature: float) -> float | None | bool:
     """The stock a stated strong acid or base is measured from [mol/L]: None when not stated
     (or stated without the acid or base, with a warning); False when it cannot be used (problem added)."""
@@ -648,6 +673,11 @@ def _adjusted(ctx: _Ctx, loc: Loc, sol: SolutionIn, spec: SolutionSpec, solution
         weak = _titrant(ctx, loc + ("with",), adj.with_, sol, conditions, refs, cited)
         if weak is None:
             return None
+        for i, comp in enumerate(spec.components):
+            if _pka_clash(comp, weak):
+                ctx.add(loc + ("with", "pka"), f"{weak.name} is also component {i + 1} with other pKa values: one substance has one set of "
+                                               "constants; leave the titrant's pka out (it takes the component's) or state the same values")
+                return None
     try:
         titrant = Component(weak.protolyte(), 1.0, weak.removed) if weak is not None else adj.with_
         amount = float(titrant_for_ph(solution, adj.ph, titrant))  # type: ignore[arg-type]
