@@ -404,6 +404,10 @@ def _preparation(p: Preparation) -> dict[str, Any]:
                 "stock_mol_per_l": t.stock_mol_per_l,
                 "volume_ml_per_l": t.volume_ml_per_l,
                 "target_ph": t.target_ph,
+                "compound": t.weighed.compound if t.weighed else None,
+                "formula": t.weighed.formula if t.weighed else None,
+                "molar_mass_g_per_mol": t.weighed.molar_mass_g_per_mol if t.weighed else None,
+                "mass_g_per_l": t.weighed.mass_g_per_l if t.weighed else None,
             }
             for t in p.titrants
         ],

@@ -154,6 +154,10 @@ def test_weak_titrant_preparation_and_results_json() -> None:
     assert sol["adjustment"]["titrant"] == "phosphoric-acid, form 2"
     assert sol["components"][-1]["removed"] == 2 and sol["components"][-1]["total_mol_per_l"] == pytest.approx(sol["adjustment"]["amount_mol_per_l"])
     assert sol["exact"]["ph"] == pytest.approx(7.2, abs=1e-9)
+    # results.json gives the weighed titrant as the page does (compound, formula, molar mass, mass per litre)
+    (tj,) = sol["preparation"]["titrants"]
+    assert tj["formula"] == "Na2HPO4" and tj["mass_g_per_l"] == pytest.approx(t.weighed.mass_g_per_l, rel=1e-12)
+    assert tj["molar_mass_g_per_mol"] == pytest.approx(t.weighed.molar_mass_g_per_mol) and tj["compound"] == t.weighed.compound
 
 
 def test_weak_titrant_of_another_substance_needs_its_pka_entries() -> None:

@@ -122,7 +122,8 @@ def test_results_json_and_the_page_table() -> None:
     assert w["compound"] == "sodium acetate trihydrate" and w["water_of_crystallisation"] == 3 and w["mass_stated"] is False
     assert w["mass_g_per_l"] == pytest.approx(0.1 * w["molar_mass_g_per_mol"]) and w["molar_mass_g_per_mol"] == pytest.approx(136.08, abs=0.01)
     assert prep["titrants"] == [{"role": "strong_base", "titrant": "strong-base", "amount_mol_per_l": 0.001, "stock_mol_per_l": 0.1,
-                                 "volume_ml_per_l": pytest.approx(10.0), "target_ph": None}]
+                                 "volume_ml_per_l": pytest.approx(10.0), "target_ph": None,
+                                 "compound": None, "formula": None, "molar_mass_g_per_mol": None, "mass_g_per_l": None}]
     html = environment().from_string('{% import "_preparation.html" as p %}{{ p.preparation_table(sa) }}').render(sa=a.solutions[0])
     assert "sodium acetate trihydrate, C₂H₃NaO₂·3H₂O" in html
     assert "13.608 g" in html and "10 mL" in html and "strong base, as stated" in html
