@@ -143,8 +143,12 @@ def load_key(path: str | Path) -> Key:
         doc = json.loads(p.read_text(encoding="utf-8"))
     except FileNotFoundError:
         raise SignatureError(f"{p}: no such key file (make one with: dossier keygen {p} --name \"Your Name\")") from None
-    except (OSError, ValueError) as exc:
-        raise SignatureError(f"{p}: cannot read the key: {exc}") from None
+    except ValueError:
+        raise SignatureError(f"{p}: not a private key made by dossier keygen (not a key file at all)") from None
+    except OSError as exc:
+        raise SignatureError(f"{p}: cannot read the key: {exc.strerror or exc}") from None
+    if isinstance(doc, dict) and doc.get("format") == PUBLIC_KEY_FORMAT:
+        raise SignatureError(f"{p}: this is the public key; sign with the private key file beside it ({p.with_suffix('') if p.suffix == '.pub' else p})")
     if mode & (stat.S_IRWXG | stat.S_IRWXO):
         raise SignatureError(f"{p}: the private key is readable by others (mode {stat.S_IMODE(mode):o}); make it yours only: chmod 600 {p}")
     if not isinstance(doc, dict) or doc.get("format") != KEY_FORMAT:

@@ -186,6 +186,17 @@ def test_a_key_readable_by_others_is_refused(tmp_path: Path, copy: Path) -> None
     assert not (tmp_path / "copy.signatures").exists()
 
 
+def test_signing_with_the_public_key_or_a_file_that_is_no_key_says_so(tmp_path: Path, copy: Path) -> None:
+    assert dossier_cli("keygen", "ana.key", "--name", "A. Analyst", cwd=tmp_path).returncode == 0
+    r = dossier_cli("sign", str(copy), "--key", "ana.key.pub", "--meaning", "approved", cwd=tmp_path)
+    assert r.returncode == 1 and "this is the public key; sign with the private key file beside it (ana.key)" in r.stderr
+    (tmp_path / "junk.key").write_text("not json", encoding="utf-8")
+    (tmp_path / "junk.key").chmod(0o600)
+    r = dossier_cli("sign", str(copy), "--key", "junk.key", "--meaning", "approved", cwd=tmp_path)
+    assert r.returncode == 1 and "not a private key made by dossier keygen" in r.stderr and "Expecting value" not in r.stderr
+    assert "Traceback" not in r.stderr and not (tmp_path / "copy.signatures").exists()
+
+
 def test_a_rebuilt_dossier_shows_that_earlier_signatures_no_longer_apply(copy: Path, tmp_path: Path) -> None:
     assert dossier_cli("keygen", "ana.key", "--name", "A. Analyst", cwd=tmp_path).returncode == 0
     assert dossier_cli("sign", str(copy), "--key", "ana.key", "--meaning", "approved", cwd=tmp_path).returncode == 0
