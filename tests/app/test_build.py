@@ -202,6 +202,8 @@ def test_diff_and_the_changes_page(tmp_path: Path) -> None:
     page = (new / "changes.html").read_text(encoding="utf-8")
     assert "tris-buffer-37c — changed (revision 3 → 4)" in page and "benzoate-extract —" not in page
     assert "1 of 2 methods changed; the 1 unchanged one is not listed" in page
+    # a dimensionless number (a conformity probability, ledger unit "1") changed: no unit "1" beside its difference
+    assert "/conformity" in page and "<td>1</td>" not in page
     assert 'href="changes.html"' in (new / "index.html").read_text(encoding="utf-8")
     cli = subprocess.run([sys.executable, "-m", "dossier", "diff", str(old), str(new)], capture_output=True, text=True, timeout=120)
     assert cli.returncode == 0
