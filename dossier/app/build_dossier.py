@@ -222,8 +222,7 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
             old_fingerprint=previous_identity[0], old_built=previous_identity[1])
         files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
         written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings)
-        if fingerprint is not None:
-            retire_signatures(out, fingerprint)  # they signed the build this one replaced (listed on its pages)
+        retire_signatures(out, fingerprint)  # they signed the build this one replaced (listed on its pages)
         if store:
             store.prune()  # what this build did not use
     return BuildOutcome(True, problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed, fingerprint)
