@@ -25,6 +25,7 @@ import logging
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from datetime import datetime
+from functools import cached_property
 
 from pypdf import PdfReader, PdfWriter
 from pypdf import PageObject
@@ -48,11 +49,25 @@ FOOTER_BOTTOM = 10.0
 
 @dataclass(frozen=True)
 class BoundReport:
-    """One method report to bind: its id, title (for the outline) and PDF bytes."""
+    """One method report to bind: its id, title (for the outline) and PDF bytes.
+
+    The PDF is parsed once, when first needed (:attr:`reader`), and that one
+    parse serves both counting its pages for the contents and binding it.
+    """
 
     id: str
     title: str
     pdf: bytes
+
+    @cached_property
+    def reader(self) -> PdfReader:
+        """The report, parsed."""
+        return PdfReader(io.BytesIO(self.pdf))
+
+    @property
+    def pages(self) -> int:
+        """Number of pages of the report."""
+        return len(self.reader.pages)
 
 
 def page_count(pdf: bytes) -> int:
@@ -84,7 +99,7 @@ def bind(front: bytes, reports: Sequence[BoundReport], back: bytes, *, title: st
     targets: dict[str, int] = {}
     for r in reports:
         targets[f"report/{r.id}"] = len(writer.pages)
-        writer.append(PdfReader(io.BytesIO(r.pdf)), outline_item=f"{r.id} — {r.title}")
+        writer.append(r.reader, outline_item=f"{r.id} — {r.title}")
     targets["signatures"] = len(writer.pages)
     back_start = len(writer.pages)
     writer.append(PdfReader(io.BytesIO(back)))

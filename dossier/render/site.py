@@ -235,9 +235,10 @@ def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes]
     the rare case that its own length differs from the first guess.
     """
     from .archival import PDF_VARIANT
-    from .binder import BoundReport, bind, page_count
+    from .binder import BoundReport, bind
 
-    lengths = [page_count(reports[a.method.id]) for a in analyses]
+    bound = [BoundReport(a.method.id, a.method.title, reports[a.method.id]) for a in analyses]
+    lengths = [r.pages for r in bound]
     n_front = 2  # cover and contents, the usual case
     for _ in range(4):
         starts, page = {}, n_front + 1
@@ -253,7 +254,7 @@ def _dossier_pdf(analyses: tuple[MethodAnalysis, ...], reports: dict[str, bytes]
         raise RuntimeError("the dossier's front matter did not settle to a fixed length")
     front = doc.copy(doc.pages[:split]).write_pdf(pdf_variant=PDF_VARIANT)
     back = doc.copy(doc.pages[split:]).write_pdf(pdf_variant=PDF_VARIANT)
-    return bind(front, [BoundReport(a.method.id, a.method.title, reports[a.method.id]) for a in analyses], back,
+    return bind(front, bound, back,
                 title="pH calculation dossier", creator=f"ph-dossier {ctx.info.version}")
 
 
