@@ -34,6 +34,7 @@ from __future__ import annotations
 import io
 from dataclasses import dataclass
 from xml.etree import ElementTree as ET
+from xml.sax.saxutils import escape, quoteattr
 
 import matplotlib
 
@@ -121,11 +122,10 @@ def matplotlib_svg(fig: Figure) -> bytes:
 
 
 _SVG_NS = "http://www.w3.org/2000/svg"
-ET.register_namespace("", _SVG_NS)
-ET.register_namespace("xlink", "http://www.w3.org/1999/xlink")
-ET.register_namespace("dc", "http://purl.org/dc/elements/1.1/")
-ET.register_namespace("cc", "http://creativecommons.org/ns#")
-ET.register_namespace("rdf", "http://www.w3.org/1999/02/22-rdf-syntax-ns#")
+_PREFIXES = {_SVG_NS: "", "http://www.w3.org/1999/xlink": "xlink", "http://purl.org/dc/elements/1.1/": "dc",
+             "http://creativecommons.org/ns#": "cc", "http://www.w3.org/1999/02/22-rdf-syntax-ns#": "rdf",
+             "http://www.w3.org/XML/1998/namespace": "xml"}
+"""The namespaces of matplotlib's SVG, with the prefixes :func:`lean_svg` writes them with."""
 
 
 def lean_svg(svg: bytes) -> bytes:
@@ -176,7 +176,43 @@ def lean_svg(svg: bytes) -> bytes:
         parent[:] = children
 
     lean(root)
-    return ET.tostring(root, encoding="utf-8", xml_declaration=True)
+    return _xml(root)
+
+
+def _xml(root: ET.Element) -> bytes:
+    """``root`` as an XML document, with the prefixes of :data:`_PREFIXES`.
+
+    Written here rather than by ``ElementTree.tostring``, whose prefixes come
+    from a registry that any other module (WeasyPrint's, the workbook
+    writer's) may change, which made the same figure's bytes depend on what
+    else the process had done.
+    """
+
+    def name(qualified: str) -> str:
+        if not qualified.startswith("{"):
+            return qualified
+        uri, local = qualified[1:].split("}", 1)
+        if uri not in _PREFIXES:
+            raise ValueError(f"unexpected namespace in a figure: {uri}")
+        return f"{_PREFIXES[uri]}:{local}" if _PREFIXES[uri] else local
+
+    used = {qualified[1:].split("}", 1)[0] for e in root.iter() for qualified in (e.tag, *e.attrib) if qualified.startswith("{")}
+    parts = ['<?xml version="1.0" encoding="utf-8"?>\n']
+
+    def write(e: ET.Element, declarations: str = "") -> None:
+        attributes = "".join(f" {name(k)}={quoteattr(v)}" for k, v in e.attrib.items())
+        parts.append(f"<{name(e.tag)}{declarations}{attributes}")
+        if len(e) == 0 and not e.text:
+            parts.append("/>")
+        else:
+            parts.append(">" + escape(e.text or ""))
+            for child in e:
+                write(child)
+            parts.append(f"</{name(e.tag)}>")
+        parts.append(escape(e.tail or ""))
+
+    write(root, "".join(f' xmlns{":" + _PREFIXES[uri] if _PREFIXES[uri] else ""}="{uri}"' for uri in sorted(used, key=_PREFIXES.get) if uri != "http://www.w3.org/XML/1998/namespace"))
+    return "".join(parts).encode("utf-8")
 
 
 def _declarations(css: str) -> list[tuple[str, str]]:

@@ -70,10 +70,26 @@ def test_lean_svg_draws_the_same_pixels_in_chromium(pairs: list[tuple[str, bytes
             for name, raw, lean in pairs:
                 shots = []
                 for svg in (raw, lean):
-                    inline = ET.tostring(ET.fromstring(svg), encoding="unicode")  # without the XML declaration and DOCTYPE
+                    text = svg.decode("utf-8")
+                    inline = text[text.index("<svg"):]  # without the XML declaration and DOCTYPE
                     page.set_content(f'<html><body style="margin:0">{inline}</body></html>')
                     shots.append(Image.open(io.BytesIO(page.screenshot(full_page=True))).convert("RGB"))
                 assert shots[0].size == shots[1].size, name
                 assert ImageChops.difference(*shots).getbbox() is None, f"{name}: the lean SVG draws differently"
         finally:
             browser.close()
+
+
+def test_lean_svg_bytes_do_not_depend_on_the_namespace_registry(pairs: list[tuple[str, bytes, bytes]]) -> None:
+    # Other libraries (the PDF and workbook writers) register XML prefixes of their own in
+    # ElementTree's process-wide registry; a figure's bytes must not change with them.
+    saved = dict(ET._namespace_map)
+    try:
+        ET.register_namespace("s", "http://www.w3.org/2000/svg")
+        ET.register_namespace("xl", "http://www.w3.org/1999/xlink")
+        for name, raw, lean in pairs:
+            assert lean_svg(raw) == lean, name
+            assert lean.startswith(b'<?xml version="1.0" encoding="utf-8"?>\n<svg xmlns="http://www.w3.org/2000/svg"'), name
+    finally:
+        ET._namespace_map.clear()
+        ET._namespace_map.update(saved)
