@@ -216,12 +216,13 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
         info = BuildInfo(__version__, build_time(), platform.python_version(), dependency_versions(), table.sha256, opts.settings.draws, opts.settings.seed, opts.settings.adaptive)
         ctx = BuildContext(table, opts.settings, info, pdf=opts.pdf and opts.site, site=opts.site, figures=opts.figures or opts.site)
         store = Cache.beside(out) if opts.cache else None
-        outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, opts.workers, rep, timings)
-        diff = None if previous is None else replace(
-            diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build"),
-            old_fingerprint=previous_identity[0], old_built=previous_identity[1])
-        files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
-        written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings)
+        with WorkerPool(max(1, opts.workers or os.cpu_count() or 1)) as pool:
+            outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, pool, rep, timings)
+            diff = None if previous is None else replace(
+                diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build"),
+                old_fingerprint=previous_identity[0], old_built=previous_identity[1])
+            files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
+            written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings, pool)
         retire_signatures(out, fingerprint)  # they signed the build this one replaced (listed on its pages)
         if store:
             store.prune()  # what this build did not use
@@ -253,15 +254,14 @@ def _keys(methods: tuple[Method, ...], ctx: BuildContext) -> dict[str, str]:
     return {m.id: method_key(m.source_sha256, ctx.table.sha256, {**config, "site": ctx.site, "figures": ctx.figures}, ctx.pdf) for m in methods}
 
 
-def _method_outcomes(methods: tuple[Method, ...], ctx: BuildContext, store: Cache | None, workers: int | None, rep: Reporter,
+def _method_outcomes(methods: tuple[Method, ...], ctx: BuildContext, store: Cache | None, pool: WorkerPool, rep: Reporter,
                      timings: dict[str, float]) -> tuple[tuple[MethodOutcome, ...], tuple[str, ...]]:
     """Each method's outcome: from the cache where its inputs are unchanged, else from its job."""
     keys = _keys(methods, ctx)
     cached = {m.id: (store.get("methods", keys[m.id], MethodOutcome) if store else None) for m in methods}
     todo = sorted((m for m in methods if cached[m.id] is None), key=expected_cost, reverse=True)  # longest first
-    n_workers = max(1, min(workers or os.cpu_count() or 1, len(todo) or 1))
     stage = "analyse, plot and render methods" + (" (pages and PDFs)" if ctx.pdf else " (pages)" if ctx.site else "")
-    with WorkerPool(n_workers if todo else 1) as pool, _timed(timings, stage):
+    with _timed(timings, stage):
         rep.stage("analysing and rendering methods", len(todo))
         fresh = pool.run(method_job, todo, ctx, [m.id for m in todo], rep)
     got = {**{mid: o for mid, o in cached.items() if o is not None}, **{m.id: o for m, o in zip(todo, fresh)}}
@@ -355,7 +355,7 @@ def _inputs_record(methods: tuple[Method, ...], table: SubstanceTable) -> tuple[
 
 
 def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext, out: Path, rep: Reporter,
-             timings: dict[str, float]) -> tuple[dict[str, str], str]:
+             timings: dict[str, float], pool: WorkerPool) -> tuple[dict[str, str], str]:
     """Stamp the pages and PDFs with the fingerprint, write every file into a
     staging folder, the manifest last, and swap it into place.
 
@@ -381,7 +381,7 @@ def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildCon
         sealed = manifest_of({rel: (hashlib.sha256(data).hexdigest(), len(data)) for rel, data in files.items() if not is_stamped(rel)})
         fingerprint = sealed.fingerprint()
         stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty), sources,
-                         datetime.strptime(ctx.info.time, BUILD_TIME_FORMAT).replace(tzinfo=timezone.utc))
+                         datetime.strptime(ctx.info.time, BUILD_TIME_FORMAT).replace(tzinfo=timezone.utc), pool)
     with _timed(timings, "publish"), _as_publish_error(out):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
@@ -411,22 +411,40 @@ def _method_sources(methods: tuple[Method, ...]) -> dict[str, bytes]:
     return out
 
 
-def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes], built: datetime) -> dict[str, bytes]:
+def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes], built: datetime, pool: WorkerPool) -> dict[str, bytes]:
     """Every page with its placeholder replaced by ``line``; every PDF with ``line`` at the
     foot of each page and its method files attached (a method PDF its own, dossier.pdf all),
-    dated ``built``."""
-    from ..render.binder import stamp_every_page
-
+    dated ``built``. The PDFs are stamped in the build's workers when they are running
+    (largest first: dossier.pdf takes as long as several reports)."""
     placeholder, text = STAMP_PLACEHOLDER.encode(), line.encode()
     name = {rel: rel.rsplit("/", 1)[-1] for rel in sources}
-    out = {}
+    out, pdfs = {}, []
     for rel, data in files.items():
         if rel.endswith(".html"):
             out[rel] = data.replace(placeholder, text)
         elif rel.endswith(".pdf"):
             mid = LAYOUT.method_of(rel)
             own = {name[s]: sources[s] for s in sources if mid is None or LAYOUT.method_of(s) == mid}
-            out[rel] = stamp_every_page(data, line, attachments=own, modified=built)
+            pdfs.append((rel, StampJob(data, line, own, built)))
         else:
             out[rel] = data
+    pdfs.sort(key=lambda job: len(job[1].pdf), reverse=True)
+    out.update(zip((rel for rel, _ in pdfs), pool.map(stamp_job, [job for _, job in pdfs])))
     return out
+
+
+@dataclass(frozen=True)
+class StampJob:
+    """One PDF to stamp: its bytes, the line, the method files to attach, the build time."""
+
+    pdf: bytes
+    line: str
+    attachments: dict[str, bytes]
+    built: datetime
+
+
+def stamp_job(job: StampJob) -> bytes:
+    """The stamped PDF of ``job`` (:func:`~dossier.render.binder.stamp_every_page`); runs in a worker."""
+    from ..render.binder import stamp_every_page
+
+    return stamp_every_page(job.pdf, job.line, attachments=job.attachments, modified=job.built)

@@ -16,6 +16,7 @@ import tempfile
 from collections.abc import Iterator
 from contextlib import contextmanager
 from pathlib import Path
+from typing import IO
 
 __all__ = ["staging_folder", "swap_into_place", "PublishError", "BuildLocked", "output_lock", "check_replaceable", "remove_stale_staging"]
 
@@ -52,6 +53,29 @@ def check_replaceable(output: Path) -> None:
         )
 
 
+_HELD: set[IO[str]] = set()
+"""The lock files this process holds open (see :func:`_drop_locks_in_child`)."""
+
+
+def _drop_locks_in_child() -> None:
+    """In a forked child (a build's worker), close the copies of the lock files.
+
+    A lock taken with ``flock`` lasts while any copy of its file descriptor
+    is open, and a fork copies them all: a worker that outlived its build
+    would keep the output locked.
+    """
+    for fh in list(_HELD):
+        try:
+            fh.close()
+        except OSError:
+            pass
+    _HELD.clear()
+
+
+if hasattr(os, "register_at_fork"):
+    os.register_at_fork(after_in_child=_drop_locks_in_child)
+
+
 @contextmanager
 def output_lock(output: Path) -> Iterator[None]:
     """Hold an exclusive lock beside ``output`` for the whole build; refuse if another build holds it."""
@@ -64,6 +88,7 @@ def output_lock(output: Path) -> Iterator[None]:
         fh = open(lock_path, "a+")
     except OSError as exc:
         raise PublishError(f"cannot create the lock {lock_path.name} in {out.parent}: {exc.strerror or exc}") from None
+    _HELD.add(fh)
     try:
         try:
             fcntl.flock(fh.fileno(), fcntl.LOCK_EX | fcntl.LOCK_NB)
@@ -77,6 +102,7 @@ def output_lock(output: Path) -> Iterator[None]:
         fh.flush()
         yield
     finally:
+        _HELD.discard(fh)
         try:
             fh.close()
         except OSError:
