@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import json
 from collections.abc import Callable
+from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -107,8 +108,19 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     if manifest.tool_version != __version__:
         notes.append(f"built with ph-dossier {manifest.tool_version}, verified with {__version__}: re-computed numbers may differ for that reason")
     texts = _PdfTexts(out)
+    try:
+        return _verify(out, manifest, texts, notes, methods, progress, data_files, dossier_data_files)
+    finally:
+        texts.close()
+
+
+def _verify(out: Path, manifest: Manifest, texts: _PdfTexts, notes: list[str], methods: list[str | Path] | None,
+            progress: Callable[[str], None] | None, data_files: DataFiles | None, dossier_data_files: DossierDataFiles | None) -> VerifyReport:
+    """:func:`verify` of a dossier whose manifest is read: the PDFs are read in the background
+    (:meth:`_PdfTexts.start`) while the methods are re-computed."""
+    texts.start([o.path for o in manifest.outputs if o.path.endswith(".pdf") and (out / o.path).is_file()])
     mm = _check_files(out, manifest)
-    mm += _check_fingerprint(out, manifest, texts)
+    seal = len(mm)  # the fingerprint's findings go here, once the PDFs are read
     entries_checked = 0
     fresh: dict[str, Fresh] = {}
     made: dict[str, dict[str, bytes]] = {}
@@ -123,6 +135,7 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
                 mm += found
     if dossier_data_files is not None and data_files is not None and len(made) == len(manifest.methods):
         mm += _compare_files(out, dossier_data_files(made))
+    mm[seal:seal] = _check_fingerprint(out, manifest, texts)
     mm += _check_shown_numbers(out, manifest, fresh, texts, notes)
     mm += _check_sources(out, manifest, texts)
     if methods is not None:
@@ -391,6 +404,10 @@ def pdf_attachments(path: Path, reader: Any = None) -> dict[str, str]:
         return {}
 
 
+_READERS = 2
+"""PDFs read at once in the background (the project's machines have two cores)."""
+
+
 class _PdfTexts:
     """Each PDF of a dossier, read once per verification.
 
@@ -409,6 +426,20 @@ class _PdfTexts:
         self.read: dict[str, list[PdfPage] | Exception] = {}
         self.fallback: dict[str, list[str]] = {}
         self.readers: dict[str, Any] = {}
+        self.pool: ThreadPoolExecutor | None = None
+        self.started: dict[str, Future[list[PdfPage]]] = {}
+
+    def start(self, rels: list[str]) -> None:
+        """Start reading these PDFs with pdftotext in two background threads (each read is a
+        pdftotext process, so the reads run beside the caller's re-computation on a second core)."""
+        self.pool = ThreadPoolExecutor(max_workers=_READERS, thread_name_prefix="pdftotext")
+        self.started = {rel: self.pool.submit(read_pdf_pages, self.out / rel) for rel in rels}
+
+    def close(self) -> None:
+        """Stop the background reads not yet started (a verification that ends early)."""
+        if self.pool is not None:
+            self.pool.shutdown(wait=True, cancel_futures=True)
+            self.pool = None
 
     def reader(self, rel: str) -> Any:
         """pypdf's reader of a PDF (None when it cannot be opened)."""
@@ -434,7 +465,7 @@ class _PdfTexts:
         """
         if rel not in self.read:
             try:
-                self.read[rel] = read_pdf_pages(self.out / rel)
+                self.read[rel] = self.started[rel].result() if rel in self.started else read_pdf_pages(self.out / rel)
             except (PdfTextUnavailable, ValueError) as exc:
                 self.read[rel] = exc
         found = self.read[rel]
