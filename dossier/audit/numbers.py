@@ -286,9 +286,8 @@ class PdfTextUnavailable(RuntimeError):
 
 
 _PAGE = re.compile(r'<page width="[\d.]+" height="([\d.]+)">(.*?)</page>', re.S)
-_BLOCK = re.compile(r'<block xMin="([\d.]+)" yMin="([\d.]+)"[^>]*>(.*?)</block>', re.S)
-_LINE = re.compile(r"<line [^>]*>(.*?)</line>", re.S)
-_WORD = re.compile(r'<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">(.*?)</word>')
+_PARTS = re.compile(r'<block xMin="([\d.]+)" yMin="([\d.]+)"|<(line) |<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)</word>')
+"""The start of each block and line and each word of a page of ``pdftotext -bbox-layout``, in one pass."""
 _ROW_TOLERANCE = 3.0
 """Blocks whose tops lie within this many points are one row of a page (the cells of a table
 row start within a few hundredths of a point of each other; rows are a line, about 10 pt, apart)."""
@@ -332,23 +331,26 @@ def read_pdf_pages(path: Path) -> list[PdfPage]:
 
 def _page(n: int, height: float, body: str) -> PdfPage:
     """One ``<page>`` element of pdftotext's output: its blocks in rows, and its words."""
-    blocks: list[tuple[float, float, str]] = []
+    blocks: list[tuple[float, float, list[list[str]]]] = []  # top, left, lines of words
     words: list[tuple[float, float, str]] = []
-    for x, y, block in _BLOCK.findall(body):
-        lines = []
-        for line in _LINE.findall(block):
-            found = _WORD.findall(line)
-            words += [(0.5 * (float(a) + float(c)), height - 0.5 * (float(b) + float(d)), html.unescape(w)) for a, b, c, d, w in found]
-            lines.append(" ".join(html.unescape(w[4]) for w in found))
-        blocks.append((float(y), float(x), "\n".join(lines)))
-    blocks.sort()
-    rows: list[list[tuple[float, float, str]]] = []
-    for b in blocks:
-        if rows and b[0] - rows[-1][0][0] <= _ROW_TOLERANCE:
-            rows[-1].append(b)
+    for bx, by, line, x0, y0, x1, y1, w in _PARTS.findall(body):
+        if bx:
+            blocks.append((float(by), float(bx), []))
+        elif line:
+            if blocks:
+                blocks[-1][2].append([])
+        elif blocks and blocks[-1][2]:
+            word = html.unescape(w) if "&" in w else w
+            words.append((0.5 * (float(x0) + float(x1)), height - 0.5 * (float(y0) + float(y1)), word))
+            blocks[-1][2][-1].append(word)
+    blocks.sort(key=lambda b: (b[0], b[1]))
+    rows: list[list[tuple[float, float, list[list[str]]]]] = []
+    for block in blocks:
+        if rows and block[0] - rows[-1][0][0] <= _ROW_TOLERANCE:
+            rows[-1].append(block)
         else:
-            rows.append([b])
-    text = "\n".join(t for row in rows for _, _, t in sorted(row, key=lambda b: b[1]))
+            rows.append([block])
+    text = "\n".join("\n".join(" ".join(line) for line in lines) for row in rows for _, _, lines in sorted(row, key=lambda b: b[1]))
     return PdfPage(n, text, tuple(words))
 
 
