@@ -13,9 +13,10 @@ re-computation, wherever it shows it:
   re-computed one rounded to three decimals, units such as mmol/L and % converted);
 - **PDFs**: every number of the body that links to its ledger entry (a link
   annotation whose named destination is ``METHOD-L-ID``; the words inside its
-  rectangle, read with their positions by ``pdftotext -bbox``), and every
-  value of the "Calculation ledger" appendix (entry id and value on one line
-  of the PDF's text), at the precision shown.
+  rectangle), and every value of the "Calculation ledger" appendix (each row
+  from its entry id to the next), at the precision shown; both from one
+  ``pdftotext -bbox-layout`` reading of the PDF (:func:`read_pdf_pages`:
+  the words with their positions, grouped in blocks and lines).
 
 Each difference is a :class:`Mismatch`: file, place, and the message with both
 values (the one record of :mod:`dossier.audit.verify` too).
@@ -36,7 +37,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-__all__ = ["Mismatch", "close", "REL_TOL", "ABS_TOL", "compare_json", "pdf_linked_numbers", "PdfTextUnavailable", "compare_csv", "compare_workbook", "parse_shown", "shown_matches", "page_numbers", "ledger_lines"]
+__all__ = ["Mismatch", "close", "REL_TOL", "ABS_TOL", "compare_json", "pdf_linked_numbers", "read_pdf_pages", "PdfPage", "PdfTextUnavailable", "compare_csv", "compare_workbook", "parse_shown", "shown_matches", "page_numbers", "ledger_lines"]
 
 REL_TOL = 1e-9
 ABS_TOL = 1e-12
@@ -258,7 +259,8 @@ def ledger_lines(page_text: str, units: Mapping[str, str]) -> Iterator[tuple[str
     """(entry id, shown value) of each ledger row on a PDF page's text (the
     "Calculation ledger" appendix: entry id, quantity, value, unit, equation).
 
-    The text is read as pypdf extracts it, cells wrapped over lines: lines
+    The text is the page's as :func:`read_pdf_pages` gives it (the table's cells
+    row by row, each cell's lines wrapped as they are printed): lines
     broken after "/" or "-" are joined, the rest become spaces, page numbers,
     headers and the fingerprint line are left out; each row runs from its
     entry id to the next; its value is the last number of the row that stands
@@ -283,20 +285,86 @@ class PdfTextUnavailable(RuntimeError):
     """pdftotext (poppler-utils), which reads the words of a PDF with their positions, is not installed."""
 
 
-_WORD = re.compile(r'<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">(.*?)</word>')
 _PAGE = re.compile(r'<page width="[\d.]+" height="([\d.]+)">(.*?)</page>', re.S)
+_PARTS = re.compile(r'<block xMin="([\d.]+)" yMin="([\d.]+)"|<(line) |<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)</word>')
+"""The start of each block and line and each word of a page of ``pdftotext -bbox-layout``, in one pass."""
+_ROW_TOLERANCE = 3.0
+"""Blocks whose tops lie within this many points are one row of a page (the cells of a table
+row start within a few hundredths of a point of each other; rows are a line, about 10 pt, apart)."""
 
 
-def pdf_linked_numbers(path: Path, wanted: Callable[[str], bool] = lambda dest: True, reader: Any = None) -> Iterator[tuple[int, str, str]]:
+@dataclass(frozen=True)
+class PdfPage:
+    """One page of a PDF as ``pdftotext -bbox-layout`` reads it (through the fonts' ToUnicode
+    maps, as a reader sees it).
+
+    ``text``: the page's blocks (a table cell, a paragraph, a running header) row by row from
+    the top, left to right within a row, each block's lines on lines of their own, words
+    joined by a space. ``words``: every word with the centre of its box (x, y in points, y
+    upwards from the page's bottom edge as PDF coordinates are).
+    """
+
+    number: int
+    text: str
+    words: tuple[tuple[float, float, str], ...]
+
+
+def read_pdf_pages(path: Path) -> list[PdfPage]:
+    """Every page of a PDF, its text and its words with their positions, in one ``pdftotext -bbox-layout`` run.
+
+    Raises
+    ------
+    PdfTextUnavailable
+        When pdftotext is not installed.
+    ValueError
+        When pdftotext cannot read the PDF (the message says why).
+    """
+    exe = shutil.which("pdftotext")
+    if exe is None:
+        raise PdfTextUnavailable("pdftotext (poppler-utils) is not installed")
+    try:
+        run = subprocess.run([exe, "-bbox-layout", str(path), "-"], capture_output=True, timeout=600, check=True)
+    except (OSError, subprocess.SubprocessError) as exc:
+        raise ValueError(f"pdftotext cannot read it: {exc}") from None
+    return [_page(n, float(height), body) for n, (height, body) in enumerate(_PAGE.findall(run.stdout.decode("utf-8", "replace")), start=1)]
+
+
+def _page(n: int, height: float, body: str) -> PdfPage:
+    """One ``<page>`` element of pdftotext's output: its blocks in rows, and its words."""
+    blocks: list[tuple[float, float, list[list[str]]]] = []  # top, left, lines of words
+    words: list[tuple[float, float, str]] = []
+    for bx, by, line, x0, y0, x1, y1, w in _PARTS.findall(body):
+        if bx:
+            blocks.append((float(by), float(bx), []))
+        elif line:
+            if blocks:
+                blocks[-1][2].append([])
+        elif blocks and blocks[-1][2]:
+            word = html.unescape(w) if "&" in w else w
+            words.append((0.5 * (float(x0) + float(x1)), height - 0.5 * (float(y0) + float(y1)), word))
+            blocks[-1][2][-1].append(word)
+    blocks.sort(key=lambda b: (b[0], b[1]))
+    rows: list[list[tuple[float, float, list[list[str]]]]] = []
+    for block in blocks:
+        if rows and block[0] - rows[-1][0][0] <= _ROW_TOLERANCE:
+            rows[-1].append(block)
+        else:
+            rows.append([block])
+    text = "\n".join("\n".join(" ".join(line) for line in lines) for row in rows for _, _, lines in sorted(row, key=lambda b: b[1]))
+    return PdfPage(n, text, tuple(words))
+
+
+def pdf_linked_numbers(path: Path, wanted: Callable[[str], bool] = lambda dest: True, reader: Any = None,
+                       pages: list[PdfPage] | None = None) -> Iterator[tuple[int, str, str]]:
     """(page number, named destination, shown text) of every link of a PDF's body
     whose named destination is ``wanted``.
 
     The link annotations and their named destinations are read with pypdf
     (``reader``: a ``PdfReader`` of ``path`` already open, else one is opened);
     the words each link's rectangle covers (a word counts when its centre is
-    inside) with ``pdftotext -bbox``, which reads the text as a reader sees it
-    (through the fonts' ToUnicode maps), for the pages that have such links
-    only. A link broken over two lines is two annotations with one
+    inside) from ``pages`` (:func:`read_pdf_pages` of ``path``, read when not
+    given), which reads the text as a reader sees it (through the fonts'
+    ToUnicode maps). A link broken over two lines is two annotations with one
     destination: their words are joined.
 
     Raises
@@ -310,9 +378,8 @@ def pdf_linked_numbers(path: Path, wanted: Callable[[str], bool] = lambda dest: 
     from pypdf.errors import PdfReadError
     from pypdf.generic import ArrayObject
 
-    exe = shutil.which("pdftotext")
-    if exe is None:
-        raise PdfTextUnavailable("pdftotext (poppler-utils) is not installed")
+    if pages is None:
+        pages = read_pdf_pages(path)
     links: dict[int, list[tuple[str, tuple[float, float, float, float]]]] = {}
     try:
         for n, page in enumerate((reader or PdfReader(path)).pages, start=1):
@@ -324,31 +391,13 @@ def pdf_linked_numbers(path: Path, wanted: Callable[[str], bool] = lambda dest: 
                     links.setdefault(n, []).append((str(dest), (min(x0, x1), min(y0, y1), max(x0, x1), max(y0, y1))))
     except (PdfReadError, ValueError, KeyError, TypeError, OSError) as exc:
         raise ValueError(f"cannot read the links: {type(exc).__name__}: {exc}") from None
-    for first, last in _runs(sorted(links)):
-        try:
-            run = subprocess.run([exe, "-bbox", "-f", str(first), "-l", str(last), str(path), "-"], capture_output=True, timeout=300, check=True)
-        except (OSError, subprocess.SubprocessError) as exc:
-            raise ValueError(f"pdftotext cannot read pages {first}–{last}: {exc}") from None
-        for n, (height, body) in enumerate(_PAGE.findall(run.stdout.decode("utf-8", "replace")), start=first):
-            yield from _linked_words(n, float(height), body, links.get(n, []))
+    for page in pages:
+        if page.number in links:
+            yield from _linked_words(page.number, page.words, links[page.number])
 
 
-def _runs(pages: list[int]) -> Iterator[tuple[int, int]]:
-    """Runs of consecutive page numbers: [3, 4, 5, 9] → (3, 5), (9, 9)."""
-    start = prev = None
-    for p in pages:
-        if start is None or prev is None or p != prev + 1:
-            if start is not None and prev is not None:
-                yield start, prev
-            start = p
-        prev = p
-    if start is not None and prev is not None:
-        yield start, prev
-
-
-def _linked_words(n: int, height: float, body: str, found: list[tuple[str, tuple[float, float, float, float]]]) -> Iterator[tuple[int, str, str]]:
-    """The words inside each link's rectangle on page ``n`` (pdftotext's page element ``body``)."""
-    words = [(0.5 * (float(a) + float(c)), height - 0.5 * (float(b) + float(d)), html.unescape(w)) for a, b, c, d, w in _WORD.findall(body)]
+def _linked_words(n: int, words: tuple[tuple[float, float, str], ...], found: list[tuple[str, tuple[float, float, float, float]]]) -> Iterator[tuple[int, str, str]]:
+    """The words (centre x, centre y, text) inside each link's rectangle on page ``n``."""
     groups: list[tuple[str, float, list[str]]] = []  # destination, bottom of its last line, words
     for dest, (x0, y0, x1, y1) in found:
         inside = [w for x, y, w in words if x0 <= x <= x1 and y0 <= y <= y1]

@@ -23,9 +23,8 @@ Each mismatch is reported by file and place, with both values.
 from __future__ import annotations
 
 import json
-import shutil
-import subprocess
 from collections.abc import Callable
+from concurrent.futures import Future, ThreadPoolExecutor
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -37,8 +36,8 @@ from ..inputs.loader import find_method_files
 from ..layout import LAYOUT
 from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
 from .diff import NotADossier, read_ledger
-from .numbers import (ABS_TOL, REL_TOL, Mismatch, PdfTextUnavailable, close, compare_csv, compare_json, compare_workbook, ledger_lines,
-                      page_numbers, pdf_linked_numbers, shown_matches)
+from .numbers import (ABS_TOL, REL_TOL, Mismatch, PdfPage, PdfTextUnavailable, close, compare_csv, compare_json, compare_workbook, ledger_lines,
+                      page_numbers, pdf_linked_numbers, read_pdf_pages, shown_matches)
 from .signatures import EARLIER, SignatureCheck, check_signatures, earlier_signatures, manifest_sha256, signatures_folder
 
 __all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "REL_TOL", "ABS_TOL"]
@@ -109,8 +108,19 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     if manifest.tool_version != __version__:
         notes.append(f"built with ph-dossier {manifest.tool_version}, verified with {__version__}: re-computed numbers may differ for that reason")
     texts = _PdfTexts(out)
+    try:
+        return _verify(out, manifest, texts, notes, methods, progress, data_files, dossier_data_files)
+    finally:
+        texts.close()
+
+
+def _verify(out: Path, manifest: Manifest, texts: _PdfTexts, notes: list[str], methods: list[str | Path] | None,
+            progress: Callable[[str], None] | None, data_files: DataFiles | None, dossier_data_files: DossierDataFiles | None) -> VerifyReport:
+    """:func:`verify` of a dossier whose manifest is read: the PDFs are read in the background
+    (:meth:`_PdfTexts.start`) while the methods are re-computed."""
+    texts.start([o.path for o in manifest.outputs if o.path.endswith(".pdf") and (out / o.path).is_file()])
     mm = _check_files(out, manifest)
-    mm += _check_fingerprint(out, manifest, texts)
+    seal = len(mm)  # the fingerprint's findings go here, once the PDFs are read
     entries_checked = 0
     fresh: dict[str, Fresh] = {}
     made: dict[str, dict[str, bytes]] = {}
@@ -125,8 +135,9 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
                 mm += found
     if dossier_data_files is not None and data_files is not None and len(made) == len(manifest.methods):
         mm += _compare_files(out, dossier_data_files(made))
+    mm[seal:seal] = _check_fingerprint(out, manifest, texts)
     mm += _check_shown_numbers(out, manifest, fresh, texts, notes)
-    mm += _check_sources(out, manifest)
+    mm += _check_sources(out, manifest, texts)
     if methods is not None:
         mm += _check_method_files(manifest, methods)
     signed = check_signatures(out, manifest.fingerprint(), manifest_sha256(out))
@@ -170,7 +181,7 @@ def _check_fingerprint(out: Path, manifest: Manifest, texts: _PdfTexts | None = 
             if line not in p.read_text(encoding="utf-8", errors="replace"):
                 mm.append(Mismatch(o.path, "footer", f"does not show this dossier's fingerprint line {line!r}"))
         elif o.path.endswith(".pdf"):
-            for n, text in enumerate((texts or _PdfTexts(out)).quick(o.path), start=1):
+            for n, text in enumerate((texts or _PdfTexts(out)).texts(o.path), start=1):
                 if line not in text:
                     mm.append(Mismatch(o.path, f"page {n}", f"does not show this dossier's fingerprint line {line!r}"))
     return mm
@@ -253,23 +264,28 @@ def _check_data_files(out: Path, fresh: Fresh, data_files: DataFiles) -> tuple[l
 
 
 def _compare_files(out: Path, made: dict[str, bytes]) -> list[Mismatch]:
-    """Each published data file (JSON, CSV, workbook) value by value against the same file made afresh."""
+    """Each published data file (JSON, CSV, workbook) value by value against the same file made afresh
+    (a file byte for byte the one made afresh, as a build made with the same code writes it, has
+    every value the same and is not read value by value)."""
     mm: list[Mismatch] = []
     for rel, data in sorted(made.items()):
         p = out / rel
         if not p.is_file():
             continue  # reported as missing
+        published = p.read_bytes()
+        if published == data:
+            continue
         if rel.endswith(".json"):
             try:
-                shown = json.loads(p.read_text(encoding="utf-8"))
+                shown = json.loads(published.decode("utf-8"))
             except ValueError as exc:
                 mm.append(Mismatch(rel, "", f"not JSON any more: {exc}"))
                 continue
             mm += compare_json(rel, shown, json.loads(data))
         elif rel.endswith(".csv"):
-            mm += compare_csv(rel, p.read_text(encoding="utf-8", errors="replace"), data.decode("utf-8"))
+            mm += compare_csv(rel, published.decode("utf-8", errors="replace"), data.decode("utf-8"))
         elif rel.endswith(".xlsx"):
-            mm += compare_workbook(rel, p.read_bytes(), data)
+            mm += compare_workbook(rel, published, data)
     return mm
 
 
@@ -293,7 +309,7 @@ def _check_shown_numbers(out: Path, manifest: Manifest, fresh: dict[str, Fresh],
         elif o.path.endswith(".pdf"):
             mm += _check_pdf_numbers(o.path, texts, fresh)
             try:
-                mm += _check_pdf_links(o.path, p, fresh, texts.reader(o.path))
+                mm += _check_pdf_links(o.path, p, fresh, texts)
             except ValueError as exc:
                 mm.append(Mismatch(o.path, "", f"the numbers of its body cannot be read: {exc}"))
             except PdfTextUnavailable as exc:
@@ -325,7 +341,7 @@ def _check_pdf_numbers(rel: str, texts: _PdfTexts, fresh: dict[str, Fresh]) -> l
                 continue
             missing = [eid for eid in f.values if f"{mid}-L-{eid}" not in anchors]
             mm += [Mismatch(rel, f"ledger row {eid}", "missing: the PDF has no ledger row for this entry") for eid in missing]
-    for n, text in (pages[0] if pages is not None else dict(enumerate(texts.of(rel), start=1))).items():
+    for n, text in (pages[0] if pages is not None else dict(enumerate(texts.texts(rel), start=1))).items():
         mid = own if own is not None else next((m for m in fresh if f"{m} · revision" in text), None)
         f = fresh.get(mid) if mid is not None else None
         if f is None:
@@ -335,12 +351,12 @@ def _check_pdf_numbers(rel: str, texts: _PdfTexts, fresh: dict[str, Fresh]) -> l
     return mm
 
 
-def _check_pdf_links(rel: str, path: Path, fresh: dict[str, Fresh], reader: object = None) -> list[Mismatch]:
+def _check_pdf_links(rel: str, path: Path, fresh: dict[str, Fresh], texts: _PdfTexts) -> list[Mismatch]:
     """Every number of a PDF's body that links to its ledger entry (named destination
     ``METHOD-L-ID``), at the precision shown."""
     own = LAYOUT.method_of(rel)
     mm: list[Mismatch] = []
-    for n, dest, shown in pdf_linked_numbers(path, lambda dest: "-L-" in dest, reader):
+    for n, dest, shown in pdf_linked_numbers(path, lambda dest: "-L-" in dest, texts.reader(rel), texts.pages(rel)):
         mid = own if own is not None and dest.startswith(f"{own}-L-") else next((m for m in fresh if dest.startswith(f"{m}-L-")), None)
         f = fresh.get(mid) if mid is not None else None
         if f is None:
@@ -350,7 +366,7 @@ def _check_pdf_links(rel: str, path: Path, fresh: dict[str, Fresh], reader: obje
     return mm
 
 
-def _check_sources(out: Path, manifest: Manifest) -> list[Mismatch]:
+def _check_sources(out: Path, manifest: Manifest, texts: _PdfTexts | None = None) -> list[Mismatch]:
     """Each published method file is the one the manifest records for its method, and every
     PDF's attachments are the published method files (a method PDF its own, dossier.pdf all)."""
     mm: list[Mismatch] = []
@@ -368,7 +384,7 @@ def _check_sources(out: Path, manifest: Manifest) -> list[Mismatch]:
         mid = LAYOUT.method_of(o.path)
         expected = {LAYOUT.method_source(m.id).rsplit("/", 1)[-1]: m.source_sha256 for m in manifest.methods
                     if (mid is None or m.id == mid) and LAYOUT.method_source(m.id) in listed}
-        found = pdf_attachments(out / o.path)
+        found = pdf_attachments(out / o.path, texts.reader(o.path) if texts is not None else None)
         for name, digest in sorted(expected.items()):
             if name not in found:
                 mm.append(Mismatch(o.path, f"attachment {name}", "missing (the method file is not attached)"))
@@ -379,35 +395,56 @@ def _check_sources(out: Path, manifest: Manifest) -> list[Mismatch]:
     return mm
 
 
-def pdf_attachments(path: Path) -> dict[str, str]:
-    """{file name: SHA-256} of the files embedded in a PDF (empty when it cannot be read)."""
+def pdf_attachments(path: Path, reader: Any = None) -> dict[str, str]:
+    """{file name: SHA-256} of the files embedded in a PDF (``reader``: a ``PdfReader`` of it
+    already open, else one is opened; empty when it cannot be read)."""
     import hashlib
 
     from pypdf import PdfReader
     from pypdf.errors import PdfReadError
 
     try:
-        return {name: hashlib.sha256(data[0] if isinstance(data, list) else data).hexdigest() for name, data in PdfReader(path).attachments.items()}
+        return {name: hashlib.sha256(data[0] if isinstance(data, list) else data).hexdigest() for name, data in (reader or PdfReader(path)).attachments.items()}
     except (PdfReadError, ValueError, KeyError, TypeError, OSError):
         return {}
 
 
-class _PdfTexts:
-    """The text of the pages of each PDF of a dossier, read once per verification.
+_READERS = 2
+"""PDFs read at once in the background (the project's machines have two cores)."""
 
-    ``quick``: every page, by pdftotext (fast; pypdf's extraction without it), for the
-    fingerprint line. ``of``: every page by pypdf's extraction, whose lines the ledger
-    appendix is parsed from (:func:`~dossier.audit.numbers.ledger_lines`); ``ledger_pages``
-    the same for only the pages the ledger rows' named destinations point to (pypdf's
-    extraction is most of the time ``verify`` spends on PDFs). The open reader of each
-    PDF serves the links of the body too.
+
+class _PdfTexts:
+    """Each PDF of a dossier, read once per verification.
+
+    ``pages``: every page's text and words with their positions, by one ``pdftotext
+    -bbox-layout`` run per PDF (:func:`~dossier.audit.numbers.read_pdf_pages`); they serve
+    the fingerprint line of every page, the rows of the ledger appendix
+    (:func:`~dossier.audit.numbers.ledger_lines`) and the words inside the body's links.
+    ``reader``: pypdf's reader of the PDF, opened once, for what pdftotext does not read —
+    the named destinations of the ledger rows, the link annotations and the attachments.
+    Without pdftotext, ``texts`` falls back to pypdf's text extraction (slow) and the body's
+    links are not read (``pages`` raises :class:`~dossier.audit.numbers.PdfTextUnavailable`).
     """
 
     def __init__(self, out: Path) -> None:
         self.out = out
-        self.cache: dict[str, list[str]] = {}
-        self.fast: dict[str, list[str]] = {}
+        self.read: dict[str, list[PdfPage] | Exception] = {}
+        self.fallback: dict[str, list[str]] = {}
         self.readers: dict[str, Any] = {}
+        self.pool: ThreadPoolExecutor | None = None
+        self.started: dict[str, Future[list[PdfPage]]] = {}
+
+    def start(self, rels: list[str]) -> None:
+        """Start reading these PDFs with pdftotext in two background threads (each read is a
+        pdftotext process, so the reads run beside the caller's re-computation on a second core)."""
+        self.pool = ThreadPoolExecutor(max_workers=_READERS, thread_name_prefix="pdftotext")
+        self.started = {rel: self.pool.submit(read_pdf_pages, self.out / rel) for rel in rels}
+
+    def close(self) -> None:
+        """Stop the background reads not yet started (a verification that ends early)."""
+        if self.pool is not None:
+            self.pool.shutdown(wait=True, cancel_futures=True)
+            self.pool = None
 
     def reader(self, rel: str) -> Any:
         """pypdf's reader of a PDF (None when it cannot be opened)."""
@@ -421,25 +458,37 @@ class _PdfTexts:
                 self.readers[rel] = None
         return self.readers[rel]
 
-    def of(self, rel: str) -> list[str]:
-        if rel not in self.cache:
-            self.cache[rel] = pdf_page_texts(self.out / rel, self.reader(rel))
-        return self.cache[rel]
+    def pages(self, rel: str) -> list[PdfPage]:
+        """pdftotext's reading of every page of a PDF.
 
-    def quick(self, rel: str) -> list[str]:
-        if rel not in self.fast:
-            exe = shutil.which("pdftotext")
+        Raises
+        ------
+        PdfTextUnavailable
+            When pdftotext is not installed.
+        ValueError
+            When pdftotext cannot read the PDF.
+        """
+        if rel not in self.read:
             try:
-                if exe is None:
-                    raise OSError("no pdftotext")
-                text = subprocess.run([exe, str(self.out / rel), "-"], capture_output=True, timeout=300, check=True).stdout.decode("utf-8", "replace")
-                self.fast[rel] = text.split("\f")[:-1] or [""]
-            except (OSError, subprocess.SubprocessError):
-                self.fast[rel] = self.of(rel)
-        return self.fast[rel]
+                self.read[rel] = self.started[rel].result() if rel in self.started else read_pdf_pages(self.out / rel)
+            except (PdfTextUnavailable, ValueError) as exc:
+                self.read[rel] = exc
+        found = self.read[rel]
+        if isinstance(found, Exception):
+            raise found
+        return found
+
+    def texts(self, rel: str) -> list[str]:
+        """The text of every page (pdftotext's; pypdf's extraction when pdftotext cannot read it)."""
+        try:
+            return [p.text for p in self.pages(rel)] or [""]
+        except (PdfTextUnavailable, ValueError):
+            if rel not in self.fallback:
+                self.fallback[rel] = pdf_page_texts(self.out / rel, self.reader(rel))
+            return self.fallback[rel]
 
     def ledger_pages(self, rel: str) -> tuple[dict[int, str], set[str]] | None:
-        """({page number: pypdf's text} of the pages the named destinations ``…-L-…`` point to,
+        """({page number: text} of the pages the named destinations ``…-L-…`` point to,
         every such destination), or None when the destinations cannot be read."""
         from pypdf.errors import PdfReadError
 
@@ -448,9 +497,10 @@ class _PdfTexts:
             return None
         try:
             names = {name: r.get_destination_page_number(d) + 1 for name, d in r.named_destinations.items() if "-L-" in name}
-            return {n: r.pages[n - 1].extract_text() or "" for n in sorted(set(names.values()))}, set(names)
         except (PdfReadError, ValueError, KeyError, TypeError, IndexError, OSError):
             return None
+        texts = self.texts(rel)
+        return {n: texts[n - 1] if 0 < n <= len(texts) else "" for n in sorted(set(names.values()))}, set(names)
 
 
 def _check_method_files(manifest: Manifest, methods: list[str | Path]) -> list[Mismatch]:

@@ -294,6 +294,27 @@ def test_a_pdf_whose_ledger_appendix_shows_other_numbers_is_caught(copy: Path, t
     assert ", re-computed " in mc[0]
 
 
+def test_without_pdftotext_verify_reads_the_appendix_and_the_fingerprint_lines_with_pypdf_and_says_so(dossier: Path, copy: Path,
+                                                                                                     tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    """pdftotext missing from PATH: the intact dossier still verifies (every PDF's ledger rows and
+    fingerprint lines read by pypdf's text extraction), a note says the PDFs' body was not read, and a
+    forged fingerprint is still found on the PDF pages."""
+    monkeypatch.setenv("PATH", str(tmp_path / "no-programs"))
+    report = verify(dossier)
+    assert report.ok, [str(x) for x in report.mismatches]
+    assert report.entries_checked > 0
+    assert any(n.startswith("the numbers in the body of the PDFs were not read: pdftotext") for n in report.notes), report.notes
+    results = copy / "methods" / METHOD / "results.json"
+    results.write_text(results.read_text(encoding="utf-8").replace('"title"', '"title" ', 1), encoding="utf-8")
+    rehash(copy, f"methods/{METHOD}/results.json")
+    m = manifest(copy)
+    m["fingerprint"] = sealed_hash(m)
+    (copy / "manifest.json").write_text(json.dumps(m, indent=2), encoding="utf-8")
+    lines = [str(x) for x in verify(copy).mismatches]
+    assert any(line.startswith("dossier.pdf: page 1: does not show") for line in lines), lines
+    assert any(line.startswith(f"methods/{METHOD}/{METHOD}.pdf: page 1: does not show") for line in lines), lines
+
+
 # ---------------------------------------------------------------- the method files in the dossier
 def test_each_method_file_is_published_beside_its_page_and_attached_to_the_pdfs(dossier: Path) -> None:
     from pypdf import PdfReader
