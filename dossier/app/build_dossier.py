@@ -234,7 +234,7 @@ def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
     try:
         return read_ledgers(Path(previous))
     except NotADossier as exc:
-        raise PreviousDossierError(f"{previous} is not a dossier built before: {exc}") from None
+        raise PreviousDossierError(f"--previous: {exc}") from None
 
 
 def _previous_identity(previous: Path | None) -> tuple[str | None, str | None]:

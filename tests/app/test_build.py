@@ -187,6 +187,17 @@ def test_a_worker_that_dies_ends_the_build_with_a_message_and_leaves_the_previou
     assert not [p for p in tmp_path.iterdir() if "staging" in p.name]
 
 
+def test_previous_that_does_not_exist_says_so_and_names_it(tmp_path: Path) -> None:
+    missing = tmp_path / "no-such-dossier"
+    with pytest.raises(build_module.PreviousDossierError) as err:
+        build(tmp_path, tmp_path / "output", pdf=False, previous=missing)
+    assert str(err.value) == f"--previous: no such folder: {missing}"
+    (tmp_path / "empty").mkdir()
+    with pytest.raises(build_module.PreviousDossierError, match=r"--previous: .*empty is not a built dossier \(no manifest.json\)"):
+        build(tmp_path, tmp_path / "output", pdf=False, previous=tmp_path / "empty")
+    assert not (tmp_path / "output").exists()
+
+
 def test_nothing_changed_recomputes_nothing_and_one_change_recomputes_one(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     out = tmp_path / "output"
     first = build(tmp_path, out, pdf=False)
