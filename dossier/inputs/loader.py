@@ -197,7 +197,10 @@ _CONCENTRATION_KEYS = {"concentration", "working_range", "tolerance", "strong_ac
 
 
 def _is_concentration(loc: Loc) -> bool:
-    return any(part in _CONCENTRATION_KEYS for part in loc[-2:] if isinstance(part, str))
+    """Whether ``loc`` is a concentration: its key, or the list's key when it is an entry
+    (``working_range[0]``); not another key beside one (``strong_acid.name``)."""
+    key = loc[-2] if len(loc) > 1 and isinstance(loc[-1], int) else loc[-1] if loc else None
+    return key in _CONCENTRATION_KEYS
 
 
 def _message(err: dict[str, Any]) -> str:
