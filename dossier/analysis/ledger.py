@@ -163,6 +163,12 @@ def _robustness_entries(sa: SolutionAnalysis) -> list[Entry]:
             Entry(f"{x}/component/{c.component}/minus", c.delta_ph_minus, "pH", f"ΔpH with {name} alone at −{c.percent:g} %", v, sid),
             Entry(f"{x}/component/{c.component}/plus", c.delta_ph_plus, "pH", f"ΔpH with {name} alone at +{c.percent:g} %", v, sid),
         ]
+    if (c := r.strong_alone) is not None:
+        name = sa.spec.lead_added_as
+        out += [
+            Entry(f"{x}/strong_alone/minus", c.delta_ph_minus, "pH", f"ΔpH with {name} at −{c.percent:g} % of its concentration", v, sid),
+            Entry(f"{x}/strong_alone/plus", c.delta_ph_plus, "pH", f"ΔpH with {name} at +{c.percent:g} % of its concentration", v, sid),
+        ]
     add = f"{r.strong_addition_mol_per_l * 1e3:g} mmol/L"
     out += [
         Entry(f"{x}/strong_acid", r.delta_ph_strong_acid, "pH", f"ΔpH on adding {add} of strong acid", v, sid),

@@ -15,6 +15,9 @@ scale and with the method's activity model, temperature and CO₂ condition:
   its nominal), or by ±\ :data:`~dossier.limits.ROBUSTNESS_COMPONENT_PERCENT` %
   when the method states none: the ratio of a buffer pair changes, which the
   whole-solution sweep of the validity analysis cannot see;
+- **a strong acid or base alone** (no components): its concentration moved
+  by ± its stated tolerance (relative to its nominal), or by the same
+  default percentage, the solution otherwise as stated;
 - **a small addition** of strong acid and of strong base
   (:data:`~dossier.limits.ROBUSTNESS_STRONG_ADDITION` mol/L, counter-ions inert);
 - **dpH/dT**, the central difference over the method's temperature tolerance
@@ -58,8 +61,9 @@ class ComponentVariation:
 
     Attributes
     ----------
-    component : int
-        Index of the component in the solution.
+    component : int or None
+        Index of the component in the solution; None for the strong acid or
+        base of a solution that holds nothing else (:attr:`RobustnessResult.strong_alone`).
     percent : float
         The relative variation x [%] applied as −x and +x.
     from_tolerance : bool
@@ -69,7 +73,7 @@ class ComponentVariation:
         pH at (1 − x/100) and (1 + x/100) times the component's total, minus the pH as stated [pH].
     """
 
-    component: int
+    component: int | None
     percent: float
     from_tolerance: bool
     delta_ph_minus: float
@@ -124,6 +128,9 @@ class RobustnessResult:
         ``open-to-air-minus-co2-free`` (the method assumes none) or
         ``as-stated-minus-co2-free``.
     curve : TitrationCurve
+    strong_alone : ComponentVariation or None
+        The strong acid or base of a solution that holds nothing else, its
+        concentration moved by ± x % (``component`` None); None otherwise.
     """
 
     ph: float
@@ -143,15 +150,19 @@ class RobustnessResult:
     co2_shift_ph: float
     co2_shift_compares: str
     curve: TitrationCurve
+    strong_alone: ComponentVariation | None = None
+
+
+def _percent(tolerance: float, concentration: float) -> tuple[float, bool]:
+    """x [%]: a tolerance relative to its nominal, or the default when none is stated."""
+    if tolerance > 0.0 and concentration > 0.0:
+        return 100.0 * tolerance / concentration, True
+    return limits.ROBUSTNESS_COMPONENT_PERCENT, False
 
 
 def _component_percents(spec: SolutionSpec) -> list[tuple[float, bool]]:
     """x [%] for each component: its tolerance relative to its nominal, or the default."""
-    out = []
-    for c in spec.components:
-        stated = c.tolerance > 0.0 and c.concentration > 0.0
-        out.append((100.0 * c.tolerance / c.concentration, True) if stated else (limits.ROBUSTNESS_COMPONENT_PERCENT, False))
-    return out
+    return [_percent(c.tolerance, c.concentration) for c in spec.components]
 
 
 def _co2_shift(nominal: Solution, exact: Equilibrium, co2: Co2Result | None) -> tuple[float, str]:
@@ -206,6 +217,10 @@ def robustness(spec: SolutionSpec, conditions: ConditionsSpec, nominal: Solution
             rows.append((1.0, f, conditions.temperature, 0.0, 0.0))
     rows += [(1.0, [1.0] * n_comp, conditions.temperature, add, 0.0), (1.0, [1.0] * n_comp, conditions.temperature, 0.0, add),
              (1.0, [1.0] * n_comp, t_lo, 0.0, 0.0), (1.0, [1.0] * n_comp, t_hi, 0.0, 0.0)]
+    alone = spec.strong_alone
+    alone_percent = _percent(alone.tolerance, alone.concentration) if alone is not None else None
+    if alone_percent is not None:  # nothing else in the solution: scaling it moves only the strong acid or base
+        rows += [(1.0 + sign * alone_percent[0] / 100.0, [1.0] * n_comp, conditions.temperature, 0.0, 0.0) for sign in (-1.0, 1.0)]
     head = len(rows)
     scale = np.array([r[0] for r in rows] + [1.0] * TITRATION_POINTS)
     factors = np.ones((head + TITRATION_POINTS, n_comp))  # (points, components); no columns for a strong acid or base alone
@@ -243,4 +258,5 @@ def robustness(spec: SolutionSpec, conditions: ConditionsSpec, nominal: Solution
         co2_shift_ph=float(shift),
         co2_shift_compares=compares,
         curve=TitrationCurve(curve_x, ph[head:].copy()),
+        strong_alone=None if alone_percent is None else ComponentVariation(None, alone_percent[0], alone_percent[1], float(d[i + 4]), float(d[i + 5])),
     )

@@ -235,7 +235,7 @@ def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:
     try:
         return read_ledgers(Path(previous))
     except NotADossier as exc:
-        raise PreviousDossierError(f"{previous} is not a dossier built before: {exc}") from None
+        raise PreviousDossierError(f"--previous: {exc}") from None
 
 
 def _previous_identity(previous: Path | None) -> tuple[str | None, str | None]:
@@ -429,7 +429,7 @@ def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes], built:
         else:
             out[rel] = data
     pdfs.sort(key=lambda job: len(job[1].pdf), reverse=True)
-    out.update(zip((rel for rel, _ in pdfs), pool.map(stamp_job, [job for _, job in pdfs])))
+    out.update(zip((rel for rel, _ in pdfs), pool.map(stamp_job, [job for _, job in pdfs], "stamping the PDFs with the fingerprint")))
     return out
 
 

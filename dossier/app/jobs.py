@@ -9,19 +9,22 @@ which the content-hash cache stores as it is.
 from __future__ import annotations
 
 import multiprocessing
+import os
 import sys
 from collections.abc import Callable, Iterator, Mapping, Sequence
 from concurrent.futures import ProcessPoolExecutor, as_completed
+from concurrent.futures.process import BrokenProcessPool
 from dataclasses import dataclass
-from typing import Protocol, TypeVar
+from typing import Any, Protocol, TypeVar
 
 from ..analysis.ledger import Ledger, ledger_of
 from ..analysis.method import MethodAnalysis, analyse_method
 from ..inputs.model import Method
 from ..render.context import BuildContext
 from ..render.site import render_method
+from .errors import UserError
 
-__all__ = ["FileSet", "MethodOutcome", "method_job", "expected_cost", "Reporter", "Silent", "WorkerPool"]
+__all__ = ["FileSet", "MethodOutcome", "method_job", "expected_cost", "Reporter", "Silent", "WorkerPool", "WorkerLost", "KILL_JOB_FOR_TESTS"]
 
 
 @dataclass(frozen=True)
@@ -97,16 +100,62 @@ class Silent:
         pass
 
 
-def _worker_init() -> None:
-    """Workers leave Ctrl-C and SIGTERM to the main process, which stops the build cleanly."""
-    import signal
-
-    signal.signal(signal.SIGINT, signal.SIG_IGN)
-    signal.signal(signal.SIGTERM, signal.SIG_DFL)
-
-
 A = TypeVar("A")
 R = TypeVar("R")
+
+KILL_JOB_FOR_TESTS = "DOSSIER_TEST_KILL_JOB"
+"""For tests only: a worker process given the job labelled with this environment
+variable's value kills itself (SIGKILL, as the kernel's out-of-memory killer does)
+as the job starts. Never honoured in the main process."""
+
+_started = None  # in a worker: where it tells the main process which job it starts
+
+
+def _worker_init(started: object = None) -> None:
+    """Workers leave Ctrl-C and SIGTERM to the main process, which stops the build cleanly;
+    each tells the main process, through ``started``, which job it starts."""
+    import signal
+
+    global _started
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    _started = started
+
+
+def _tracked(fn: Callable[[A, BuildContext], R], item: A, ctx: BuildContext, index: int, label: str) -> R:
+    """In a worker: say that job ``index`` starts (and in which process), then run it."""
+    if _started is not None:
+        _started.put((index, os.getpid()))  # type: ignore[attr-defined]
+    if os.environ.get(KILL_JOB_FOR_TESTS) == label:
+        import signal
+
+        os.kill(os.getpid(), signal.SIGKILL)
+    return fn(item, ctx)
+
+
+class WorkerLost(UserError):
+    """A worker process ended abruptly (killed, or out of memory) during a job: the
+    jobs it and the other workers were running are lost; nothing was written.
+
+    Attributes
+    ----------
+    labels : tuple of str
+        The jobs that had started and not finished when the worker died (one of
+        them was the dead worker's).
+    """
+
+    def __init__(self, labels: Sequence[str], *, during: str | None = None) -> None:
+        self.labels = tuple(labels)
+        if during is not None:
+            during = f"while {during}"
+        elif len(self.labels) == 1:
+            during = f"during the job of method {self.labels[0]!r}, which was lost"
+        elif self.labels:
+            during = f"during the job of one of the methods {', '.join(repr(x) for x in self.labels)}; their jobs were lost"
+        else:
+            during = "as it started, before any job had begun"
+        super().__init__(f"a worker process ended abruptly (killed, or out of memory?) {during}. Nothing already published was changed. "
+                         "Run the command again; with --workers 1 it needs less memory")
 
 
 class WorkerPool:
@@ -123,11 +172,16 @@ class WorkerPool:
     (about 1.4 s of CPU each); elsewhere they are spawned. (A fork server
     would do the same, but its workers are not this process's children, so
     their CPU time would be missing from what the benchmarks measure.)
+
+    A worker process that dies (killed, out of memory) ends :meth:`run` or
+    :meth:`map` with :class:`WorkerLost`, which names the jobs that were
+    running; the pool is shut down and nothing else happens.
     """
 
     def __init__(self, workers: int) -> None:
         self.workers = workers
         self.executor: ProcessPoolExecutor | None = None
+        self._starts: Any = None  # the workers say here which job they start
 
     def __enter__(self) -> WorkerPool:
         return self
@@ -135,6 +189,8 @@ class WorkerPool:
     def __exit__(self, *exc: object) -> None:
         if self.executor is not None:
             self.executor.shutdown(wait=True, cancel_futures=True)
+        if self._starts is not None:
+            self._starts.close()
 
     @property
     def started(self) -> bool:
@@ -144,11 +200,18 @@ class WorkerPool:
     def _start(self, jobs: int) -> ProcessPoolExecutor | None:
         if self.executor is None and self.workers > 1 and jobs > 1:
             context = multiprocessing.get_context("fork" if sys.platform == "linux" else "spawn")
-            self.executor = ProcessPoolExecutor(max_workers=min(self.workers, jobs), mp_context=context, initializer=_worker_init)
+            self._starts = context.SimpleQueue()
+            self.executor = ProcessPoolExecutor(max_workers=min(self.workers, jobs), mp_context=context, initializer=_worker_init, initargs=(self._starts,))
         return self.executor
 
     def run(self, fn: Callable[[A, BuildContext], R], items: Sequence[A], ctx: BuildContext, labels: Sequence[str], reporter: Reporter) -> list[R]:
-        """``fn(item, ctx)`` for each item, results in the order of ``items``; reports each as it finishes."""
+        """``fn(item, ctx)`` for each item, results in the order of ``items``; reports each as it finishes.
+
+        Raises
+        ------
+        WorkerLost
+            When a worker process dies during a job.
+        """
         executor = self._start(len(items))
         if executor is None:
             out = []
@@ -156,17 +219,46 @@ class WorkerPool:
                 out.append(fn(item, ctx))
                 reporter.step(label)
             return out
-        futures = {executor.submit(fn, item, ctx): i for i, item in enumerate(items)}
+        futures = {executor.submit(_tracked, fn, item, ctx, i, labels[i]): i for i, item in enumerate(items)}
+        processes = dict(getattr(executor, "_processes", None) or {})  # {pid: Process}, all started by now
         done: dict[int, R] = {}
-        for fut in as_completed(futures):
-            i = futures[fut]
-            done[i] = fut.result()
-            reporter.step(labels[i])
+        try:
+            for fut in as_completed(futures):
+                i = futures[fut]
+                done[i] = fut.result()
+                reporter.step(labels[i])
+        except BrokenProcessPool:
+            executor.shutdown(wait=True, cancel_futures=True)
+            raise WorkerLost([labels[i] for i in self._lost_jobs(processes, done)]) from None
         return [done[i] for i in range(len(items))]
 
-    def map(self, fn: Callable[[A], R], items: Sequence[A]) -> list[R]:
+    def map(self, fn: Callable[[A], R], items: Sequence[A], what: str) -> list[R]:
         """``fn(item)`` for each item, results in the order of ``items``: in the
-        workers if they are running, else here. Give the longest jobs first."""
+        workers if they are running, else here. Give the longest jobs first.
+        ``what``: the jobs, as :class:`WorkerLost` names them if a worker dies."""
         if self.executor is None or len(items) <= 1:
             return [fn(item) for item in items]
-        return list(self.executor.map(fn, items))
+        try:
+            return list(self.executor.map(fn, items))
+        except BrokenProcessPool:
+            self.executor.shutdown(wait=True, cancel_futures=True)
+            raise WorkerLost([], during=what) from None
+
+    def _lost_jobs(self, processes: Mapping[int, multiprocessing.process.BaseProcess], done: Mapping[int, object]) -> list[int]:
+        """The unfinished jobs of the worker that died; when that cannot be told apart,
+        every job that had started and not finished.
+
+        A worker that died of itself (killed by SIGKILL, out of memory, or exited) has
+        an exit code other than −SIGTERM, which the pool sends to the others once one
+        has died.
+        """
+        import signal
+
+        assert self._starts is not None
+        running: list[tuple[int, int]] = []
+        while not self._starts.empty():
+            index, pid = self._starts.get()
+            if index not in done:
+                running.append((index, pid))
+        dead = {pid for pid, p in processes.items() if p.exitcode not in (None, 0, -signal.SIGTERM)}
+        return [i for i, pid in running if pid in dead] or [i for i, _ in running]

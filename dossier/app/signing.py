@@ -32,11 +32,21 @@ class Signed:
 def keygen(path: str | Path, name: str) -> KeyMade:
     """Make a personal Ed25519 key pair for ``name`` (private key mode 0600, never in a dossier).
 
+    The folder must exist: a private key goes only where its owner chose, so a
+    missing folder (a typing error, or one that would be made with the default
+    permissions) is refused rather than made.
+
     Raises
     ------
     SignatureError
         When the key cannot be made there (the message says why).
     """
+    folder = Path(path).parent
+    if folder.exists() and not folder.is_dir():
+        raise SignatureError(f"{folder} is not a folder")
+    if not folder.exists():
+        raise SignatureError(f"{folder}: no such folder; keygen does not create folders, make it first "
+                             f"(readable by you only: mkdir -m 700 {folder})")
     return KeyMade(*make_key(path, name))
 
 

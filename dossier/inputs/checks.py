@@ -12,6 +12,7 @@ from __future__ import annotations
 import dataclasses
 import difflib
 import re
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 from .. import limits
@@ -57,7 +58,7 @@ from .substances import Substance, SubstanceTable, TableCompound, TableForm
 from .units import UnitError, format_concentration, parse_concentration, parse_pressure
 from .yamlpos import LoadedYaml
 
-__all__ = ["build_method", "CONCENTRATION_LIMITS"]
+__all__ = ["build_method", "CONCENTRATION_LIMITS", "closest", "did_you_mean"]
 
 CONCENTRATION_LIMITS = limits.CONCENTRATION
 """Allowed concentrations in a method file, nominal and working range [mol/L]."""
@@ -65,10 +66,17 @@ CONCENTRATION_LIMITS = limits.CONCENTRATION
 Loc = tuple[str | int, ...]
 
 
+def closest(word: str, choices: list[str] | tuple[str, ...]) -> str | None:
+    """The choice closest to ``word`` (difflib ratio ≥ 0.7, ignoring case), or None."""
+    folded = {c.casefold(): c for c in choices}
+    close = difflib.get_close_matches(word.casefold(), list(folded), n=1, cutoff=0.7)
+    return folded[close[0]] if close else None
+
+
 def did_you_mean(word: str, choices: list[str] | tuple[str, ...]) -> str:
-    """' (did you mean 'x'?)' when a choice is close, else ''."""
-    close = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.7)
-    return f" (did you mean {close[0]!r}?)" if close else ""
+    """' (did you mean 'x'?)' when a choice is close (:func:`closest`), else ''."""
+    close = closest(word, choices)
+    return f" (did you mean {close!r}?)" if close else ""
 
 
 @dataclass
@@ -790,30 +798,28 @@ def _conditions(ctx: _Ctx | None, c: Conditions) -> ConditionsSpec:
     if co2 == "air":
         return ConditionsSpec(*base, co2="open", co2_partial_pressure=AIR_PARTIAL_PRESSURE_ATM, co2_as_written="air")
     if isinstance(co2, Co2Open):
-        try:
-            p = parse_pressure(co2.partial_pressure)
-        except UnitError as e:
-            if ctx:
-                ctx.add(("conditions", "co2", "partial_pressure"), str(e))
-            return ConditionsSpec(*base)
-        lo, hi = limits.CO2_PARTIAL_PRESSURE
-        if not lo <= p <= hi:
-            if ctx:
-                ctx.add(("conditions", "co2", "partial_pressure"), f"{co2.partial_pressure} is {p:g} atm; allowed {lo:g} … {hi:g} atm")
-            return ConditionsSpec(*base)
-        return ConditionsSpec(*base, co2="open", co2_partial_pressure=p, co2_as_written=f"partial_pressure: {co2.partial_pressure}")
+        p = _co2_amount(ctx, "partial_pressure", co2.partial_pressure, parse_pressure, limits.CO2_PARTIAL_PRESSURE, "atm")
+        return ConditionsSpec(*base) if p is None else ConditionsSpec(*base, co2="open", co2_partial_pressure=p, co2_as_written=f"partial_pressure: {co2.partial_pressure}")
+    total = _co2_amount(ctx, "dissolved", co2.dissolved, lambda text: parse_concentration(text, temperature=c.temperature).mol_per_l,
+                        limits.CONCENTRATION, "mol/L")
+    return ConditionsSpec(*base) if total is None else ConditionsSpec(*base, co2="closed", co2_total=total, co2_as_written=f"dissolved: {co2.dissolved}")
+
+
+def _co2_amount(ctx: _Ctx | None, key: str, text: str, parse: Callable[[str], float], bounds: tuple[float, float], unit: str) -> float | None:
+    """The value of ``co2: {key: text}`` in ``unit`` (``parse`` reads it), or None, reported
+    when ``ctx``, when it cannot be read or lies outside ``bounds``."""
     try:
-        total = parse_concentration(co2.dissolved, temperature=c.temperature).mol_per_l
+        value = parse(text)
     except UnitError as e:
         if ctx:
-            ctx.add(("conditions", "co2", "dissolved"), str(e))
-        return ConditionsSpec(*base)
-    lo, hi = limits.CONCENTRATION
-    if not lo <= total <= hi:
+            ctx.add(("conditions", "co2", key), str(e))
+        return None
+    lo, hi = bounds
+    if not lo <= value <= hi:
         if ctx:
-            ctx.add(("conditions", "co2", "dissolved"), f"{co2.dissolved} is {total:g} mol/L; allowed {lo:g} … {hi:g} mol/L")
-        return ConditionsSpec(*base)
-    return ConditionsSpec(*base, co2="closed", co2_total=total, co2_as_written=f"dissolved: {co2.dissolved}")
+            ctx.add(("conditions", "co2", key), f"{text} is {value:g} {unit}; allowed {lo:g} … {hi:g} {unit}")
+        return None
+    return value
 
 
 _RESERVED_NAMES = re.compile(r"^(con|prn|aux|nul|com[0-9]|lpt[0-9])(\..*)?$", re.IGNORECASE)

@@ -7,7 +7,6 @@ on bad input and nothing prints.
 
 from __future__ import annotations
 
-import difflib
 import hashlib
 import os
 import typing
@@ -20,7 +19,7 @@ from pydantic import BaseModel, ValidationError
 from pydantic.fields import FieldInfo
 
 from ..problems import Problem, Severity, has_errors
-from .checks import build_method, check_valid_parts, dotted
+from .checks import build_method, check_valid_parts, closest, did_you_mean, dotted
 from .model import Method
 from .schema import FORMAT, ID_RULE, MethodFile
 from .substances import SubstanceTable, load_table
@@ -113,6 +112,21 @@ def _union_model_for(annotation: Any, data: Any) -> Any:
     return max(models, key=lambda m: sum(k in m.model_fields for k in data))
 
 
+def _union_forms(annotation: Any) -> dict[str, type[BaseModel]]:
+    """{key: model} of the mapping forms of a union (``{partial_pressure: …}``,
+    ``{dissolved: …}``), each model known by its first key; {} when not such a union."""
+    return {next(iter(m.model_fields)): m for m in _union_members(annotation)
+            if isinstance(m, type) and issubclass(m, BaseModel) and m.model_fields}
+
+
+def _forms_of_key(loc: Loc) -> dict[str, type[BaseModel]]:
+    """The mapping forms (:func:`_union_forms`) of the field that holds key ``loc[-1]``,
+    when that key names one of them; else {}."""
+    parent = _field_at(loc[:-1])
+    forms = _union_forms(parent.annotation) if parent is not None else {}
+    return forms if loc[-1] in forms else {}
+
+
 def _strip_unknown(data: Any, model: Any, loc: Loc, doc: LoadedYaml, out: list[Problem], path: str) -> Any:
     """Drop keys the schema does not know, each with a warning (and a suggestion)."""
     ann = _unwrap(_union_model_for(model, data))
@@ -120,13 +134,18 @@ def _strip_unknown(data: Any, model: Any, loc: Loc, doc: LoadedYaml, out: list[P
     if isinstance(ann, type) and issubclass(ann, BaseModel) and isinstance(data, dict):
         cleaned = {}
         by_key = {(f.alias or name): f for name, f in ann.model_fields.items()}  # as written in the file ('with')
+        forms = _union_forms(model)  # the other mapping forms, when this mapping is one of several
         for key, value in data.items():
             if key in by_key:
                 cleaned[key] = _strip_unknown(value, by_key[key].annotation, loc + (key,), doc, out, path)
             else:
                 pos = doc.keys.get(loc + (key,), doc.where(loc + (key,)))
-                close = difflib.get_close_matches(str(key), list(by_key), n=1, cutoff=0.7)
-                hint = f"; did you mean {close[0]!r}?" if close else f"; known keys here: {', '.join(by_key)}"
+                known = [*by_key, *(k for k in forms if k not in by_key)]
+                close = closest(str(key), known)
+                if key in forms:
+                    hint = f"; {dotted(loc)} takes one of {' or '.join(repr(k) for k in forms)}, not both"
+                else:
+                    hint = f"; did you mean {close!r}?" if close else f"; known keys here: {', '.join(known)}"
                 out.append(Problem(path, pos.line, pos.column, dotted(loc + (key,)), f"unknown key {key!r} (ignored){hint}", Severity.WARNING))
         return cleaned
     if origin in (list, tuple) and isinstance(data, list):
@@ -178,7 +197,10 @@ _CONCENTRATION_KEYS = {"concentration", "working_range", "tolerance", "strong_ac
 
 
 def _is_concentration(loc: Loc) -> bool:
-    return any(part in _CONCENTRATION_KEYS for part in loc[-2:] if isinstance(part, str))
+    """Whether ``loc`` is a concentration: its key, or the list's key when it is an entry
+    (``working_range[0]``); not another key beside one (``strong_acid.name``)."""
+    key = loc[-2] if len(loc) > 1 and isinstance(loc[-1], int) else loc[-1] if loc else None
+    return key in _CONCENTRATION_KEYS
 
 
 def _message(err: dict[str, Any]) -> str:
@@ -189,6 +211,9 @@ def _message(err: dict[str, Any]) -> str:
     rng, unit = _bounds(info)
     is_int = info is not None and _unwrap(info.annotation) is int
     noun = "a whole number" if is_int else "a number"
+    if kind == "missing" and (forms := _forms_of_key(loc)):
+        said = {k: (m.__doc__ or "").strip().splitlines()[0].rstrip(".") for k, m in forms.items()}
+        return "as a mapping, needs one of the keys " + " or ".join(f"{k!r} ({d[:1].lower()}{d[1:]})" for k, d in said.items())
     if kind == "missing":
         desc = f" ({info.description.rstrip('.')})" if info is not None and info.description else ""
         return f"required key {loc[-1]!r} is missing{desc}"
@@ -199,15 +224,14 @@ def _message(err: dict[str, Any]) -> str:
     if kind == "literal_error":
         expected = err.get("ctx", {}).get("expected", "")
         choices = [c.strip().strip("'") for c in expected.replace(" or ", ",").split(",") if c.strip()]
-        hint = ""
-        if isinstance(value, str):
-            close = difflib.get_close_matches(value, choices, n=1, cutoff=0.7)
-            hint = f" (did you mean {close[0]!r}?)" if close else ""
+        hint = did_you_mean(value, choices) if isinstance(value, str) else ""
         if loc == ("format",):
             return f"must be {FORMAT!r} (the format version this tool reads); got {_show(value)}"
         if loc[-2:] == ("adjusted_to", "with"):
             return (f"must be one of {', '.join(choices)}, or a substance and its form ({{substance: phosphoric-acid, form: 2}}); "
                     f"got {_show(value)}{hint}")
+        if info is not None and (forms := _union_forms(info.annotation)):
+            return f"must be {', '.join([*choices, *(f'{{{k}: …}}' for k in forms)][:-1])} or {{{list(forms)[-1]}: …}}; got {_show(value)}{hint}"
         return f"must be one of {', '.join(choices)}; got {_show(value)}{hint}"
     if kind == "string_pattern_mismatch":
         return f"must be {ID_RULE}; got {_show(value)}"
@@ -303,7 +327,8 @@ def _type_problems(exc: ValidationError, doc: LoadedYaml, path: str, data: Any =
             continue
         err = {**err, "loc": loc}
         pos = doc.where(loc[:-1] if err["type"] == "missing" else loc)
-        out.append(Problem(path, pos.line, pos.column, dotted(loc), _message(err)))
+        shown = loc[:-1] if err["type"] == "missing" and _forms_of_key(loc) else loc  # the mapping, not the key it lacks
+        out.append(Problem(path, pos.line, pos.column, dotted(shown), _message(err)))
     return out
 
 

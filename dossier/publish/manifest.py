@@ -262,6 +262,8 @@ class Manifest:
             When the folder holds no readable manifest.
         """
         path = folder / MANIFEST_NAME
+        if not folder.exists():
+            raise ManifestError(f"no such folder: {folder}")
         try:
             data = json.loads(path.read_text(encoding="utf-8"))
         except FileNotFoundError:

@@ -320,6 +320,13 @@ def _robustness(sa: SolutionAnalysis) -> dict[str, Any]:
                 }
                 for v in r.components
             ],
+            "strong_alone_variation": None if (a := r.strong_alone) is None else {
+                "name": sa.spec.lead_added_as,
+                "percent": a.percent,
+                "percent_source": "tolerance" if a.from_tolerance else "default",
+                "delta_ph_minus": a.delta_ph_minus,
+                "delta_ph_plus": a.delta_ph_plus,
+            },
             "strong_addition_mol_per_l": r.strong_addition_mol_per_l,
             "delta_ph_strong_acid": r.delta_ph_strong_acid,
             "delta_ph_strong_base": r.delta_ph_strong_base,

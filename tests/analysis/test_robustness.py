@@ -110,6 +110,34 @@ def test_a_strong_acid_alone_dilutes_and_neutralises_as_its_closed_form() -> Non
     assert r.ph + r.delta_ph_strong_base == pytest.approx(equilibrium(m.solutions[0].to_solution(m.conditions)).pkw / 2.0, abs=1e-6)
 
 
+@pytest.mark.parametrize(("tolerance", "percent", "source"), [("0.05 mmol/L", 5.0, "tolerance"), (None, limits.ROBUSTNESS_COMPONENT_PERCENT, "default")])
+def test_a_strong_acid_alone_gets_its_concentration_row(tolerance: str | None, percent: float, source: str) -> None:
+    # 1 mmol/L HCl alone, ideal: [H+] = C/2 + sqrt(C²/4 + Kw) (the charge balance, derived
+    # here), so ±x % of C moves the pH by −log10 of the ratio of those roots.
+    strong = {"concentration": "1 mmol/L", "working_range": ["0.1 mmol/L", "10 mmol/L"], "name": "hydrochloric acid"}
+    if tolerance is not None:
+        strong["tolerance"] = tolerance
+    m = MethodBuilder().solution(shortcuts=("strong-acid",), strong_acid=strong).build()
+    r = _robust(m)
+    kw = 10.0 ** -equilibrium(m.solutions[0].to_solution(m.conditions)).pkw
+    h = lambda c: c / 2 + math.sqrt(c * c / 4 + kw)  # noqa: E731
+    v = r.strong_alone
+    assert v is not None and v.component is None and (v.percent, v.from_tolerance) == (pytest.approx(percent), source == "tolerance")
+    assert v.delta_ph_minus == pytest.approx(-math.log10(h(1e-3 * (1 - percent / 100)) / h(1e-3)), abs=1e-9)
+    assert v.delta_ph_plus == pytest.approx(-math.log10(h(1e-3 * (1 + percent / 100)) / h(1e-3)), abs=1e-9)
+    a = analyse_method(m, AnalysisSettings(draws=1000, map_pka=11, map_conc=11, adaptive=False))
+    doc = results_document(a, "0" * 64)["solutions"][0]["robustness"]["strong_alone_variation"]
+    assert doc == {"name": "hydrochloric acid", "percent": v.percent, "percent_source": source,
+                   "delta_ph_minus": v.delta_ph_minus, "delta_ph_plus": v.delta_ph_plus}
+    led = {e.id: e.value for e in ledger_entries(a)}
+    assert (led["s/robustness/strong_alone/minus"], led["s/robustness/strong_alone/plus"]) == (v.delta_ph_minus, v.delta_ph_plus)
+
+
+def test_a_buffer_has_no_strong_alone_row() -> None:
+    r = _robust(_acetate_buffer())
+    assert r.strong_alone is None
+
+
 def test_one_component_alone_moves_the_ratio_by_the_tolerance() -> None:
     # Henderson–Hasselbalch (ideal, equal totals of 50 mmol/L): +x % of the salt alone gives
     # ΔpH = log10(1 + x/100), −x % of it log10(1 − x/100); the acid the opposite sign.

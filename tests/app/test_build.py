@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+import os
 import shutil
 import subprocess
 import sys
@@ -160,6 +161,41 @@ def test_an_exception_in_rendering_leaves_the_previous_dossier(tmp_path: Path, m
         build(tmp_path, out, pdf=False, cache=False)
     assert tree(out) == before
     assert not [p for p in tmp_path.iterdir() if "staging" in p.name]
+
+
+def test_a_worker_that_dies_ends_the_build_with_a_message_and_leaves_the_previous_dossier(tmp_path: Path) -> None:
+    """A worker process killed during a method's job (SIGKILL, as the out-of-memory killer
+    sends; the test-only hook makes the job kill its own process): the build names the
+    method, says nothing published was changed, exits 1, and the earlier dossier is intact."""
+    from dossier.app.jobs import KILL_JOB_FOR_TESTS
+
+    methods = methods_dir(tmp_path)
+    out = tmp_path / "output"
+    args = [sys.executable, "-m", "dossier", "build", str(methods), "-o", str(out), "--draws", "2000", "--no-pdf", "--quiet", "--workers", "2"]
+    assert subprocess.run(args, cwd=tmp_path, capture_output=True, text=True, timeout=600).returncode == 0
+    before = tree(out)
+    env = {**os.environ, KILL_JOB_FOR_TESTS: "tris-buffer-37c"}
+    env.pop("DOSSIER_DEBUG", None)
+    lost = subprocess.run([*args, "--no-cache"], cwd=tmp_path, capture_output=True, text=True, timeout=600, env=env)
+    assert lost.returncode == 1, lost.stderr
+    assert "Traceback" not in lost.stderr and "BrokenProcessPool" not in lost.stderr
+    assert "worker process ended abruptly" in lost.stderr
+    assert "during the job of method 'tris-buffer-37c'" in lost.stderr
+    assert "benzoate-extract" not in lost.stderr.split("worker process")[1]  # the other method's worker did not die
+    assert "Nothing already published was changed" in lost.stderr
+    assert tree(out) == before
+    assert not [p for p in tmp_path.iterdir() if "staging" in p.name]
+
+
+def test_previous_that_does_not_exist_says_so_and_names_it(tmp_path: Path) -> None:
+    missing = tmp_path / "no-such-dossier"
+    with pytest.raises(build_module.PreviousDossierError) as err:
+        build(tmp_path, tmp_path / "output", pdf=False, previous=missing)
+    assert str(err.value) == f"--previous: no such folder: {missing}"
+    (tmp_path / "empty").mkdir()
+    with pytest.raises(build_module.PreviousDossierError, match=r"--previous: .*empty is not a built dossier \(no manifest.json\)"):
+        build(tmp_path, tmp_path / "output", pdf=False, previous=tmp_path / "empty")
+    assert not (tmp_path / "output").exists()
 
 
 def test_nothing_changed_recomputes_nothing_and_one_change_recomputes_one(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:

@@ -127,6 +127,7 @@ def dossier_cli(*args: str, cwd: Path) -> subprocess.CompletedProcess[str]:
 
 
 def test_keygen_writes_a_private_key_for_its_owner_only_and_never_into_a_dossier(copy: Path, tmp_path: Path) -> None:
+    (tmp_path / "keys").mkdir()  # keygen makes no folders (tests/app/test_keygen.py)
     r = dossier_cli("keygen", "keys/ana.key", "--name", "A. Analyst", cwd=tmp_path)
     assert r.returncode == 0, r.stderr
     key, pub = tmp_path / "keys" / "ana.key", tmp_path / "keys" / "ana.key.pub"

@@ -95,3 +95,34 @@ def test_parse_pressure_needs_a_unit() -> None:
         parse_pressure(0.1)  # type: ignore[arg-type]
     with pytest.raises(UnitError, match="negative"):
         parse_pressure("-1 atm")
+
+
+def _messages(co2: object) -> list[str]:
+    return [f"{p.field}: {p.message}" for p in _builder(co2).load().problems if "co2" in p.field]
+
+
+@pytest.mark.parametrize(("co2", "meant"), [({"disolved": "0.05 mmol/L"}, "dissolved"), ({"partial_presure": "1000 µatm"}, "partial_pressure")])
+def test_a_typo_in_a_co2_key_gets_a_suggestion_from_every_form(co2: object, meant: str) -> None:
+    # the suggestion comes from the keys of both mapping forms, not only the one taken first
+    typo = next(iter(co2))  # type: ignore[call-overload]
+    assert f"conditions.co2.{typo}: unknown key {typo!r} (ignored); did you mean {meant!r}?" in _messages(co2)
+
+
+@pytest.mark.parametrize("co2", ["airr", 5, "Air"])
+def test_a_co2_word_that_is_no_form_lists_the_mapping_forms_too(co2: object) -> None:
+    (msg,) = _messages(co2)
+    assert msg.startswith("conditions.co2: must be none, air, {partial_pressure: …} or {dissolved: …}; got ")
+    assert msg.endswith("(did you mean 'air'?)") == isinstance(co2, str)
+
+
+@pytest.mark.parametrize("co2", [{}, {"pressure": "1 atm"}])
+def test_a_co2_mapping_without_either_key_names_both(co2: object) -> None:
+    msgs = _messages(co2)
+    assert ("conditions.co2: as a mapping, needs one of the keys 'partial_pressure' (open to a gas at a stated CO₂ partial pressure) "
+            "or 'dissolved' (closed: a stated total of dissolved inorganic carbon added (as CO₂))") in msgs
+    assert not any("required key" in m for m in msgs)
+
+
+def test_both_co2_keys_say_that_one_form_is_taken() -> None:
+    assert ("conditions.co2.dissolved: unknown key 'dissolved' (ignored); conditions.co2 takes one of 'partial_pressure' or 'dissolved', not both"
+            in _messages({"partial_pressure": "1 atm", "dissolved": "1 mmol/L"}))
