@@ -263,53 +263,79 @@ def _h_upper(a, kw, comps, comps_k):  # noqa: ANN001, ANN202
     return 0.5 * (a + np.sqrt(a * a + 4.0 * q)) + extra
 
 
-def _solve_h(x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
-    """Safeguarded Newton on G(ln h) = 0 for all points; returns (x, iterations, failed)."""
-    a = ca + sum(c.total * (len(c.log_k) - c.removed) for c in comps if not c.fixed)
-    b = cb + sum(c.total * c.removed for c in comps if not c.fixed)
-    m = x0.shape[0]
-    kw_full = np.broadcast_to(kw, (m,))
-    a = np.broadcast_to(a, (m,))
-    b = np.broadcast_to(b, (m,))
-    hi = np.log(_h_upper(a, kw_full, comps, comps_k)) + 1e-9
-    lo = np.log(2.0 * kw_full / (b + np.sqrt(b * b + 4.0 * kw_full))) - 1e-9
-    x = np.where(np.isfinite(x0), x0, 0.5 * (lo + hi))
-    x = np.clip(x, lo, hi)
-    out = x.copy()
-    pos = np.arange(m)  # positions in the caller's arrays of the working set
+def _solve_h(m, x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
+    """Safeguarded Newton on G(ln h) = 0 for all ``m`` points; returns (x, iterations, failed).
+
+    ``x0`` is a start per point (NaN: none) or None (no starts at all: the
+    bracket's midpoint). The bracket is kept by arithmetic instead of masked
+    copies: with w = −∞·G, lo ← fmax(lo, min(x, w)) and hi ← fmin(hi, max(x, w))
+    move lo to x where G < 0 and hi to x where G > 0, and leave both where G
+    is 0 or not a number (min/max pass the NaN, fmax/fmin drop it).
+    """
+    pos_k = [c.total * (len(c.log_k) - c.removed) if len(c.log_k) - c.removed != 1 else c.total for c in comps if not c.fixed and len(c.log_k) > c.removed]
+    a = sum(pos_k, ca)
+    b = sum((c.total * c.removed if c.removed != 1 else c.total for c in comps if not c.fixed and c.removed), cb)
+    hi = np.log(_h_upper(a, kw, comps, comps_k)) + 1e-9
+    lo = np.log(2.0 * kw / (b + np.sqrt(b * b + 4.0 * kw))) - 1e-9
+    hi = np.broadcast_to(hi, (m,)).copy() if np.ndim(hi) == 0 else np.asarray(hi, dtype=np.float64)
+    lo = np.full(m, lo) if np.ndim(lo) == 0 else np.asarray(lo, dtype=np.float64)
+    x = np.add(lo, hi)
+    x *= 0.5
+    if x0 is not None:
+        x = np.clip(np.where(np.isfinite(x0), x0, x), lo, hi)
+    out = np.empty(m)
+    pos = None  # positions in the caller's arrays of the working set (None: all, in order)
     w_kw, w_k, w_c, w_ca, w_cb = kw, comps_k, comps, ca, cb
-    newton_stop = 0.1 * np.sqrt(tol)
+    newton_stop = max(0.1 * np.sqrt(tol), tol)
+    w = np.empty(m)
+    t = np.empty(m)
     for it in range(1, _MAX_NEWTON + 1):
         g, dg, _, _, _ = _balance(x, w_kw, w_k, w_c, w_ca, w_cb)
-        np.copyto(lo, x, where=g < 0.0)  # a non-finite G (overflow) updates neither end
-        np.copyto(hi, x, where=g > 0.0)
+        k = x.shape[0]
+        wk, tk = w[:k], t[:k]
+        np.multiply(g, -np.inf, out=wk)  # −∞ where G > 0, +∞ where G < 0, NaN where G is 0 or NaN
+        np.fmax(lo, np.minimum(x, wk, out=tk), out=lo)
+        np.fmin(hi, np.maximum(x, wk, out=tk), out=hi)
         step = np.divide(g, dg, out=g)
-        x_new = x - step
+        x_new = np.subtract(x, step, out=dg)
         # Newton's step unless it leaves the bracket (or is not finite): bisect.
-        newton = (x_new >= lo) & (x_new <= hi)
+        newton = np.greater_equal(x_new, lo)
+        newton &= x_new <= hi
         # A Newton step of size d leaves an error of order d²: stop once d² is
         # below the tolerance (with a factor 100 to spare), or any step is below it.
         if newton.all():  # the usual case: no bisection, |step| is the step taken
-            done = np.abs(step, out=step) <= max(newton_stop, tol)
+            done = np.less_equal(np.abs(step, out=step), newton_stop, out=newton)
         else:
             x_new = np.where(newton, x_new, 0.5 * (lo + hi))
             step = np.abs(x_new - x)
             done = (step <= tol) | (newton & (step <= newton_stop))
         x = x_new
         n_done = np.count_nonzero(done)
-        if n_done == done.size:
-            out[pos] = x
+        if n_done == k:
+            if pos is None:
+                out[:] = x
+            else:
+                out[pos] = x
             return out, it, np.zeros(m, dtype=bool)
-        if 4 * n_done >= done.size:
-            out[pos[done]] = x[done]
+        if 4 * n_done >= k:
             keep = np.flatnonzero(~done)
-            pos, x, lo, hi = pos[keep], x[keep], lo[keep], hi[keep]
+            if pos is None:
+                out[done] = x[done]
+                pos = keep
+            else:
+                out[pos[done]] = x[done]
+                pos = pos[keep]
+            x, lo, hi = x[keep], lo[keep], hi[keep]
             w_kw, w_ca, w_cb = _take(np.asarray(w_kw), keep), _take(np.asarray(w_ca), keep), _take(np.asarray(w_cb), keep)
-            w_k = [[_take(v, keep) for v in k] for k in w_k]
+            w_k = [[_take(v, keep) for v in k_] for k_ in w_k]
             w_c = [c.take(keep, constants=False) for c in w_c]
     failed = np.zeros(m, dtype=bool)
-    failed[pos] = True
-    out[pos] = x
+    if pos is None:
+        failed[:] = True
+        out[:] = x
+    else:
+        failed[pos] = True
+        out[pos] = x
     return out, _MAX_NEWTON, failed
 
 
@@ -505,7 +531,7 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
             last = None
             if ideal:
                 args = _kernel_args(part, 0.0)
-                x, its, failed = _solve_h(np.full(m, np.nan), *args, tolerance)
+                x, its, failed = _solve_h(m, None, *args, tolerance)
                 what = "the charge balance"
             else:
                 x, f, its, failed, what, last = _solve_with_activity(part, m, model.unit_log_gamma, davies, tolerance)
@@ -640,7 +666,7 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
     for outer in range(_MAX_OUTER):
         f = log_gamma(sub, i_now)
         kw, ks, comps, ca, cb = _kernel_args(sub, f)
-        x, its, failed = _solve_h(x_all[pos], kw, ks, comps, ca, cb, tol)
+        x, its, failed = _solve_h(pos.size, x_all[pos], kw, ks, comps, ca, cb, tol)
         total_iterations += its
         if failed.any():
             bad = np.zeros(m, dtype=bool)
