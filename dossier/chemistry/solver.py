@@ -186,7 +186,8 @@ def _fractions(k: list[NDArray[np.float64]], inv_h: NDArray[np.float64]) -> list
     d = [k[0] * inv_h]
     for kj in k[1:]:
         d.append(d[-1] * (kj * inv_h))
-    alpha0 = 1.0 / (1.0 + sum(d[1:], d[0]))
+    alpha0 = np.add(sum(d[1:], d[0]), 1.0)
+    alpha0 = np.reciprocal(alpha0, out=alpha0) if alpha0.ndim else 1.0 / alpha0
     return [alpha0] + [dj * alpha0 for dj in d]
 
 
@@ -202,11 +203,13 @@ def _is_zero(a: NDArray[np.float64]) -> bool:
     return a.ndim == 0 and not a
 
 
-def _balance(x, kw, comps_k, comps, ca, cb):  # noqa: ANN001, ANN202 - hot kernel
+def _balance(x, kw, comps_k, comps, ca, cb, derivative=True):  # noqa: ANN001, ANN202 - hot kernel
     """G = ln(P/N) and dG/dx at x = ln h; also P, N and the fractions.
 
     P, N and their derivatives are summed in place once they are arrays of
-    their own (fewer temporaries; the hot loop of every solve).
+    their own (fewer temporaries; the hot loop of every solve). With
+    ``derivative=False`` only P, N and the fractions are formed (G and dG/dx
+    are None): the final evaluation at the root needs no more.
     """
     h = np.exp(x)
     inv_h = np.reciprocal(h)
@@ -217,24 +220,26 @@ def _balance(x, kw, comps_k, comps, ca, cb):  # noqa: ANN001, ANN202 - hot kerne
     n_own = n is not oh
     dp = h
     dp_own = False
-    dn = np.negative(oh)
+    dn = np.negative(oh) if derivative else None
     alphas = []
     for comp, k in zip(comps, comps_k):
         # An open gas's ions scale with 1/h^j at fixed state 0: d ln D_j / d ln h = −j, i.e. r̄ = 0.
         a = _ratios(k, inv_h) if comp.fixed else _fractions(k, inv_h)
         alphas.append(a)
-        rbar = 0.0 if comp.fixed else a[1] if len(a) == 2 else sum(j * aj for j, aj in enumerate(a) if j)
+        rbar = 0.0 if comp.fixed or not derivative else a[1] if len(a) == 2 else sum(j * aj for j, aj in enumerate(a) if j)
         r = comp.removed
         for j, aj in enumerate(a):
             if j == r:
                 continue
             w = comp.total * aj if abs(r - j) == 1 else (abs(r - j) * comp.total) * aj
-            dw = w * (rbar - j)
             if j < r:
                 if p_own:
                     p += w
                 else:
                     p, p_own = p + w, True
+                if not derivative:
+                    continue
+                dw = w * (rbar - j)
                 if dp_own:
                     dp += dw
                 else:
@@ -244,7 +249,10 @@ def _balance(x, kw, comps_k, comps, ca, cb):  # noqa: ANN001, ANN202 - hot kerne
                     n += w
                 else:
                     n, n_own = n + w, True
-                dn += dw
+                if derivative:
+                    dn += w * (rbar - j)
+    if not derivative:
+        return None, None, p, n, alphas
     g = np.log(p / n)
     dg = dp / p
     dg -= dn / n
@@ -556,7 +564,7 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
                 if not ideal:
                     args = _kernel_args(part, f)
                 kw, ks, comps, ca, cb = args
-                _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
+                _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb, derivative=False)
                 ionic[sl] = _ionic_strength(x, kw, alphas, comps, ca, cb, part.background)
             residual[sl] = (p - n) / np.maximum(p, n)
             np.multiply(x, -1.0 / LN10, out=ph_conc[sl])
@@ -684,7 +692,7 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
             bad = np.zeros(m, dtype=bool)
             bad[pos[failed]] = True
             return x_all, f_all, total_iterations, bad, "the charge balance", None
-        _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
+        _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb, derivative=False)
         phi = _ionic_strength(x, kw, alphas, comps, ca, cb, sub.background)
         psi = phi - i_now
         x_all[pos] = x
@@ -891,7 +899,7 @@ def titrant_for_ph(solution: Solution, target_ph: ArrayLike, titrant: str | Comp
         for _ in range(_MAX_OUTER):
             kw, ks, comps, ca, cb = _kernel_args(block, f)
             x = (-tgt - f) * LN10
-            _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb)
+            _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb, derivative=False)
             extra_ca = extra_cb = 0.0
             if t_comp is not None:
                 _, (t_ks,) = _conditional(block.log_kw, [t_comp], f)
