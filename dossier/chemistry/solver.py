@@ -207,26 +207,30 @@ def _balance(x, kw, comps_k, comps, ca, cb, derivative=True):  # noqa: ANN001, A
     """G = ln(P/N) and dG/dx at x = ln h; also P, N and the fractions.
 
     P, N and their derivatives are summed in place once they are arrays of
-    their own (fewer temporaries; the hot loop of every solve). With
-    ``derivative=False`` only P, N and the fractions are formed (G and dG/dx
-    are None): the final evaluation at the root needs no more.
+    their own (fewer temporaries; the hot loop of every solve); the
+    derivative of N is kept negated, −dN/dx, so that every term adds. With
+    ``derivative=False`` only P, N and the fractions are formed, and h and
+    K_w'/h take the place of G and dG/dx (the final evaluation at the root
+    needs no more, and the ionic strength reuses them).
     """
     h = np.exp(x)
     inv_h = np.reciprocal(h)
     oh = kw * inv_h
     p = h if _is_zero(cb) else h + cb
     n = oh if _is_zero(ca) else oh + ca
-    p_own = p is not h  # p, dp, n may still be h or oh: add to them out of place once
+    p_own = p is not h  # p, dp, n, dn_neg may still be h or oh: add to them out of place once
     n_own = n is not oh
     dp = h
     dp_own = False
-    dn = np.negative(oh) if derivative else None
+    dn_neg = oh  # −dN/dx
+    dn_own = False
     alphas = []
     for comp, k in zip(comps, comps_k):
         # An open gas's ions scale with 1/h^j at fixed state 0: d ln D_j / d ln h = −j, i.e. r̄ = 0.
         a = _ratios(k, inv_h) if comp.fixed else _fractions(k, inv_h)
         alphas.append(a)
-        rbar = 0.0 if comp.fixed or not derivative else a[1] if len(a) == 2 else sum(j * aj for j, aj in enumerate(a) if j)
+        two = len(a) == 2 and not comp.fixed  # one step: r̄ = α₁ and 1 − r̄ = α₀
+        rbar = 0.0 if comp.fixed or not derivative or two else sum(j * aj for j, aj in enumerate(a) if j)
         r = comp.removed
         for j, aj in enumerate(a):
             if j == r:
@@ -239,7 +243,7 @@ def _balance(x, kw, comps_k, comps, ca, cb, derivative=True):  # noqa: ANN001, A
                     p, p_own = p + w, True
                 if not derivative:
                     continue
-                dw = w * (rbar - j)
+                dw = w * a[1] if two else w * (rbar - j)  # d w / dx = w (r̄ − j)
                 if dp_own:
                     dp += dw
                 else:
@@ -249,13 +253,21 @@ def _balance(x, kw, comps_k, comps, ca, cb, derivative=True):  # noqa: ANN001, A
                     n += w
                 else:
                     n, n_own = n + w, True
-                if derivative:
-                    dn += w * (rbar - j)
+                if not derivative:
+                    continue
+                dw = w * a[0] if two else w * (j - rbar)  # −d w / dx = w (j − r̄)
+                if dn_own:
+                    dn_neg += dw
+                else:
+                    dn_neg, dn_own = dn_neg + dw, True
     if not derivative:
-        return None, None, p, n, alphas
+        return h, oh, p, n, alphas
     g = np.log(p / n)
-    dg = dp / p
-    dg -= dn / n
+    dg = np.divide(dn_neg, n)
+    if dp is p:  # P = h alone: dP/dx / P = 1
+        dg += 1.0
+    else:
+        dg += dp / p
     return g, dg, p, n, alphas
 
 
@@ -321,9 +333,8 @@ def _solve_h(m, x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
         n_done = np.count_nonzero(done)
         if n_done == k:
             if pos is None:
-                out[:] = x
-            else:
-                out[pos] = x
+                return x, it, np.zeros(m, dtype=bool)
+            out[pos] = x
             return out, it, np.zeros(m, dtype=bool)
         if 4 * n_done >= k:
             keep = np.flatnonzero(~done)
@@ -347,9 +358,10 @@ def _solve_h(m, x0, kw, comps_k, comps, ca, cb, tol):  # noqa: ANN001, ANN202
     return out, _MAX_NEWTON, failed
 
 
-def _ionic_strength(x, kw, alphas, comps, ca, cb, background):  # noqa: ANN001, ANN202
-    h = np.exp(x)
-    s = h + kw / h
+def _ionic_strength(x, kw, alphas, comps, ca, cb, background, h_oh=None):  # noqa: ANN001, ANN202
+    """I from the speciation at x = ln h (``h_oh``: h and K_w'/h there, if already formed)."""
+    h, oh = h_oh if h_oh is not None else (np.exp(x), None)
+    s = h + (kw / h if oh is None else oh)
     if not (_is_zero(ca) and _is_zero(cb)):
         s = s + (ca + cb)
     for comp, a in zip(comps, alphas):
@@ -564,9 +576,9 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
                 if not ideal:
                     args = _kernel_args(part, f)
                 kw, ks, comps, ca, cb = args
-                _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb, derivative=False)
-                ionic[sl] = _ionic_strength(x, kw, alphas, comps, ca, cb, part.background)
-            residual[sl] = (p - n) / np.maximum(p, n)
+                h, oh, p, n, alphas = _balance(x, kw, ks, comps, ca, cb, derivative=False)
+                ionic[sl] = _ionic_strength(x, kw, alphas, comps, ca, cb, part.background, (h, oh))
+            np.divide(np.subtract(p, n, out=residual[sl]), np.maximum(p, n), out=residual[sl])
             np.multiply(x, -1.0 / LN10, out=ph_conc[sl])
             if not ideal:
                 np.subtract(ph_conc[sl], f, out=ph[sl])
@@ -692,8 +704,8 @@ def _solve_with_activity(block: _Block, m: int, unit_log_gamma, davies: float, t
             bad = np.zeros(m, dtype=bool)
             bad[pos[failed]] = True
             return x_all, f_all, total_iterations, bad, "the charge balance", None
-        _, _, p, n, alphas = _balance(x, kw, ks, comps, ca, cb, derivative=False)
-        phi = _ionic_strength(x, kw, alphas, comps, ca, cb, sub.background)
+        h, oh, p, n, alphas = _balance(x, kw, ks, comps, ca, cb, derivative=False)
+        phi = _ionic_strength(x, kw, alphas, comps, ca, cb, sub.background, (h, oh))
         psi = phi - i_now
         x_all[pos] = x
         f_all[pos] = f
