@@ -673,7 +673,9 @@ def equilibrium(solution: Solution, *, tolerance: float = TOLERANCE) -> Equilibr
     for i, fr in enumerate(fractions):
         fractions[i] = fr.reshape((fr.shape[0],) + shape)
         fractions[i].setflags(write=False)
-    pkw_used = np.broadcast_to(-block.log_kw, (size,)).copy()
+    # one temperature: a read-only view of the one value instead of a filled array
+    pkw_used = np.broadcast_to(-block.log_kw, (size,))
+    pkw_used = pkw_used if block.log_kw.ndim == 0 else pkw_used.copy()
     carbonate = _carbonate_state(solution, co2_species, shaped) if co2_species is not None else None
     return Equilibrium(
         ph=shaped(ph),
