@@ -332,6 +332,36 @@ def _h_upper(a, kw, comps, comps_k):  # noqa: ANN001, ANN202
     return 0.5 * (a + np.sqrt(a * a + 4.0 * q)) + extra
 
 
+def _start(kw, comps_k, comps, ca, cb, lo, hi, out):  # noqa: ANN001, ANN202
+    r"""A start for Newton's method: the weak-acid and weak-base limits combined.
+
+    .. math::
+        h_0^2 = K_w'\,\frac{K_w' + C_a^2 + \sum_k C_k K'_{k,r_k+1}}{K_w' + C_b^2 + \sum_k C_k K_w'/K'_{k,r_k}}
+
+    Each component gives off its next proton as a weak acid (h² ≈ C K) and
+    takes one up as a weak base ([OH⁻]² ≈ C K_w/K); for an acid alone this is
+    h ≈ √(C K + K_w), for a base alone [OH⁻] ≈ √(C K_w/K + K_w), and for an
+    acid with as much of its conjugate base h ≈ K (Henderson–Hasselbalch).
+    Any start inside the bracket [lo, hi] gives the same root; this one only
+    saves steps. Written into ``out``.
+    """
+    acid = kw if _is_zero(ca) else kw + ca * ca
+    base = kw if _is_zero(cb) else kw + cb * cb
+    for c, k in zip(comps, comps_k):
+        if c.fixed:
+            continue
+        if c.removed < len(k):
+            acid = acid + c.total * k[c.removed]
+        if c.removed > 0:
+            base = base + c.total * (kw / k[c.removed - 1])
+    x = np.multiply(acid, kw, out=out)
+    x /= base
+    np.log(x, out=x)
+    x *= 0.5
+    np.fmax(x, lo, out=x)  # fmax: an overflowed (NaN) start becomes lo
+    return np.fmin(x, hi, out=x)
+
+
 def _solve_h(m, x0, kw, comps_k, comps, ca, cb, tol, ws=None):  # noqa: ANN001, ANN202
     """Safeguarded Newton on G(ln h) = 0 for all ``m`` points; returns (x, iterations, failed).
 
@@ -348,12 +378,13 @@ def _solve_h(m, x0, kw, comps_k, comps, ca, cb, tol, ws=None):  # noqa: ANN001, 
     pos_k = [c.total * (len(c.log_k) - c.removed) if len(c.log_k) - c.removed != 1 else c.total for c in comps if not c.fixed and len(c.log_k) > c.removed]
     a = sum(pos_k, ca)
     b = sum((c.total * c.removed if c.removed != 1 else c.total for c in comps if not c.fixed and c.removed), cb)
-    hi = np.log(_h_upper(a, kw, comps, comps_k)) + 1e-9
-    lo = np.log(2.0 * kw / (b + np.sqrt(b * b + 4.0 * kw))) - 1e-9
-    hi = np.broadcast_to(hi, (m,)).copy() if np.ndim(hi) == 0 else np.asarray(hi, dtype=np.float64)
-    lo = np.full(m, lo) if np.ndim(lo) == 0 else np.asarray(lo, dtype=np.float64)
-    x = np.add(lo, hi)
-    x *= 0.5
+    ws.k = m
+    hi, lo = ws("hi"), ws("lo")
+    np.copyto(hi, _h_upper(a, kw, comps, comps_k))
+    np.log(hi, out=hi)
+    hi += 1e-9
+    np.copyto(lo, np.log(2.0 * kw / (b + np.sqrt(b * b + 4.0 * kw))) - 1e-9)
+    x = _start(kw, comps_k, comps, ca, cb, lo, hi, ws("x_odd"))  # the first step goes to x_even
     if x0 is not None:
         x = np.clip(np.where(np.isfinite(x0), x0, x), lo, hi)
     out = np.empty(m)
