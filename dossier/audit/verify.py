@@ -23,8 +23,12 @@ Each mismatch is reported by file and place, with both values.
 from __future__ import annotations
 
 import json
+import multiprocessing
+import os
+import sys
 from collections.abc import Callable
-from concurrent.futures import Future, ThreadPoolExecutor
+from concurrent.futures import Future, ProcessPoolExecutor, ThreadPoolExecutor
+from concurrent.futures.process import BrokenProcessPool
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -81,7 +85,8 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     methods : list of paths, optional
         Method files (or folders) whose hashes must match the manifest.
     progress : callable, optional
-        Called with a label before each method is re-computed.
+        Called with a method's id as its re-computation is taken up (the
+        methods are re-computed in worker processes, one per core, on Linux).
     data_files : callable, optional
         Makes a method's data files afresh (:data:`DataFiles`); with it, every
         value of results.json, of the CSV tables and of the method's workbook is
@@ -118,21 +123,32 @@ def _verify(out: Path, manifest: Manifest, texts: _PdfTexts, notes: list[str], m
             progress: Callable[[str], None] | None, data_files: DataFiles | None, dossier_data_files: DossierDataFiles | None) -> VerifyReport:
     """:func:`verify` of a dossier whose manifest is read: the PDFs are read in the background
     (:meth:`_PdfTexts.start`) while the methods are re-computed."""
-    texts.start([o.path for o in manifest.outputs if o.path.endswith(".pdf") and (out / o.path).is_file()])
-    mm = _check_files(out, manifest)
-    seal = len(mm)  # the fingerprint's findings go here, once the PDFs are read
-    entries_checked = 0
-    fresh: dict[str, Fresh] = {}
-    made: dict[str, dict[str, bytes]] = {}
-    for m in manifest.methods:
-        found, checked, recomputed = _check_ledger(out, m.id, progress)
-        mm += found
-        entries_checked += checked
-        if recomputed is not None:
-            fresh[m.id] = recomputed
-            if data_files is not None:
-                found, made[m.id] = _check_data_files(out, recomputed, data_files)
-                mm += found
+    ids = [m.id for m in manifest.methods]
+    pool = _forked_pool(len(ids))  # forked before the reading threads start
+    try:
+        pending = [pool.submit(_recompute, out, mid, data_files) for mid in ids] if pool else []
+        texts.start([o.path for o in manifest.outputs if o.path.endswith(".pdf") and (out / o.path).is_file()])
+        mm = _check_files(out, manifest)
+        seal = len(mm)  # the fingerprint's findings go here, once the PDFs are read
+        entries_checked = 0
+        fresh: dict[str, Fresh] = {}
+        made: dict[str, dict[str, bytes]] = {}
+        for i, mid in enumerate(ids):
+            if progress:
+                progress(mid)
+            try:
+                found, checked, recomputed, files = pending[i].result() if pool else _recompute(out, mid, data_files)
+            except BrokenProcessPool:  # a worker died (killed, out of memory): this process does it instead
+                found, checked, recomputed, files = _recompute(out, mid, data_files)
+            mm += found
+            entries_checked += checked
+            if recomputed is not None:
+                fresh[mid] = recomputed
+                if files is not None:
+                    made[mid] = files
+    finally:
+        if pool is not None:
+            pool.shutdown(wait=True, cancel_futures=True)
     if dossier_data_files is not None and data_files is not None and len(made) == len(manifest.methods):
         mm += _compare_files(out, dossier_data_files(made))
     mm[seal:seal] = _check_fingerprint(out, manifest, texts)
@@ -225,15 +241,35 @@ class Fresh:
     units: dict[str, str]
 
 
-def _check_ledger(out: Path, method_id: str, progress: Callable[[str], None] | None) -> tuple[list[Mismatch], int, Fresh | None]:
+def _forked_pool(methods: int) -> ProcessPoolExecutor | None:
+    """Worker processes to re-compute the methods in, one per core, forked from this
+    process (which has the analysis code imported: a worker starts at once); ``None``
+    for a single method or core, or where forking is not the platform's way (the
+    methods are then re-computed here, one after the other)."""
+    workers = min(os.cpu_count() or 1, methods)
+    if workers < 2 or sys.platform != "linux":
+        return None
+    return ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("fork"))
+
+
+def _recompute(out: Path, method_id: str, data_files: DataFiles | None) -> tuple[list[Mismatch], int, Fresh | None, dict[str, bytes] | None]:
+    """One method's re-computation and its comparisons (:func:`_check_ledger`, then
+    :func:`_check_data_files` with ``data_files``): mismatches, entries checked, the
+    re-computation, and the data files made afresh. Runs in a worker process."""
+    found, checked, recomputed = _check_ledger(out, method_id)
+    if recomputed is None or data_files is None:
+        return found, checked, recomputed, None
+    more, made = _check_data_files(out, recomputed, data_files)
+    return found + more, checked, recomputed, made
+
+
+def _check_ledger(out: Path, method_id: str) -> tuple[list[Mismatch], int, Fresh | None]:
     """Re-compute one method from its ledger's recorded inputs and compare every entry."""
     rel = LAYOUT.ledger(method_id)
     try:
         ledger = read_ledger(out, method_id)
     except NotADossier as exc:
         return [Mismatch(rel, "", f"cannot read the ledger: {exc}")], 0, None
-    if progress:
-        progress(method_id)
     recorded = ledger.values()
     analysis = analyse_method(ledger.method, ledger.settings)
     entries = ledger_entries(analysis)
