@@ -142,7 +142,7 @@ def lean_svg(svg: bytes) -> bytes:
     set them and the element's ``style`` overrode it (SVG 1.1, 6.4: any CSS
     rule outranks a presentation attribute, so the rule must not stay). The
     no-op ``rotate(-0 …)`` transforms of horizontal text go too. The picture is
-    unchanged; WeasyPrint draws a report's figures in about 0.8 of the time
+    unchanged; WeasyPrint writes a report in about 0.84 of the time
     (docs/performance.md). Deterministic: same input, same bytes.
     """
     root = ET.fromstring(svg)
