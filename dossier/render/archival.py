@@ -23,14 +23,15 @@ What is checked of the result and what is not is in docs/reliability.md
 from __future__ import annotations
 
 import hashlib
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 from datetime import datetime
 from xml.sax.saxutils import escape
 
 from pypdf import PdfReader, PdfWriter
-from pypdf.generic import ArrayObject, ByteStringObject, NameObject, NumberObject, TextStringObject
+from pypdf.generic import (ArrayObject, ByteStringObject, DecodedStreamObject, DictionaryObject, IndirectObject, NameObject, NumberObject,
+                           PdfObject, TextStringObject)
 
-__all__ = ["PDF_VARIANT", "PDFA_PART", "PDFA_CONFORMANCE", "RELATIONSHIP", "declare", "attach", "xmp_packet"]
+__all__ = ["PDF_VARIANT", "PDFA_PART", "PDFA_CONFORMANCE", "RELATIONSHIP", "declare", "associated_file", "identifier", "xmp_packet"]
 
 PDF_VARIANT = "pdf/a-3b"
 """WeasyPrint's name of the PDF variant every PDF of the dossier is laid out as."""
@@ -119,33 +120,56 @@ def declare(writer: PdfWriter, content: Iterable[bytes], *, intents_from: PdfRea
     writer.xmp_metadata = xmp_packet(info)  # the catalog's stream rewritten in place, or a new one
     root["/Metadata"].get_object().update({NameObject("/Type"): NameObject("/Metadata"), NameObject("/Subtype"): NameObject("/XML")})
     writer.pdf_header = b"%PDF-1.7"
-    digest = hashlib.sha256()
-    for part in content:
-        digest.update(hashlib.sha256(part).digest())
-    new = ByteStringObject(digest.digest()[:16])
+    new = identifier(content)
     first = writer._ID[0] if writer._ID else new  # a stamped report keeps the identifier it was laid out with
     writer._ID = ArrayObject([first, new])
 
 
-def attach(writer: PdfWriter, name: str, data: bytes, *, modified: datetime | None = None) -> None:
-    """Embed ``data`` as ``name``, an associated file of the document (PDF/A-3, ISO 19005-3 6.8).
+def pdf_date(moment: datetime) -> str:
+    """``moment`` as a PDF date, ``D:YYYYMMDDHHmmSS+HH'mm'`` (ISO 32000-1, 7.9.4); a naive moment is taken as UTC."""
+    offset = moment.utcoffset()
+    minutes = 0 if offset is None else int(offset.total_seconds()) // 60
+    sign = "-" if minutes < 0 else "+"
+    return f"D:{moment:%Y%m%d%H%M%S}{sign}{abs(minutes) // 60:02d}'{abs(minutes) % 60:02d}'"
 
-    The embedded file carries its MIME type (``application/yaml`` for a
-    method file), its size and, when given, its modification date; its file
-    specification the ``F`` and ``UF`` names and ``AFRelationship``
-    :data:`RELATIONSHIP`, and is listed in the catalog's ``AF`` array.
-    Read back with ``pypdf.PdfReader(path).attachments`` ({name: [bytes]}).
+
+def identifier(content: Iterable[bytes]) -> ByteStringObject:
+    """A file identifier (16 bytes) hashed from what the document is made from: same inputs, same identifier."""
+    digest = hashlib.sha256()
+    for part in content:
+        digest.update(hashlib.sha256(part).digest())
+    return ByteStringObject(digest.digest()[:16])
+
+
+def associated_file(add: Callable[[PdfObject], IndirectObject], name: str, data: bytes, *,
+                    modified: datetime | None = None) -> IndirectObject:
+    """``data`` embedded as ``name``, an associated file of the document (PDF/A-3, ISO 19005-3 6.8).
+
+    The embedded file stream (Flate-compressed) carries its MIME type
+    (``application/yaml`` for a method file), its size and, when given, its
+    modification date; its file specification the ``F`` and ``UF`` names and
+    ``AFRelationship`` :data:`RELATIONSHIP`. Both objects are added with
+    ``add`` (``Update.add`` of :mod:`.pdfupdate`); the caller lists the
+    returned specification in the catalog's ``AF`` array and in the
+    ``EmbeddedFiles`` name tree. Read back with
+    ``pypdf.PdfReader(path).attachments`` ({name: [bytes]}).
     """
-    embedded = writer.add_attachment(name, data)
+    raw = DecodedStreamObject()
+    raw.set_data(data)
+    stream = raw.flate_encode(level=9)
     suffix = name[name.rfind("."):].lower() if "." in name else ""
-    embedded.subtype = NameObject("/" + _MIME.get(suffix, "application/octet-stream"))
-    embedded.size = NumberObject(len(data))
+    params = DictionaryObject({NameObject("/Size"): NumberObject(len(data))})
     if modified is not None:
-        embedded.modification_date = modified
-    spec = embedded.pdf_object
-    spec[NameObject("/UF")] = TextStringObject(name)
-    spec[NameObject("/AFRelationship")] = NameObject(RELATIONSHIP)
-    root = writer.root_object
-    if "/AF" not in root:
-        root[NameObject("/AF")] = ArrayObject()
-    root["/AF"].append(spec.indirect_reference)
+        params[NameObject("/ModDate")] = TextStringObject(pdf_date(modified))
+    stream.update({
+        NameObject("/Type"): NameObject("/EmbeddedFile"),
+        NameObject("/Subtype"): NameObject("/" + _MIME.get(suffix, "application/octet-stream")),
+        NameObject("/Params"): params,
+    })
+    return add(DictionaryObject({
+        NameObject("/Type"): NameObject("/Filespec"),
+        NameObject("/F"): TextStringObject(name),
+        NameObject("/UF"): TextStringObject(name),
+        NameObject("/EF"): DictionaryObject({NameObject("/F"): add(stream)}),
+        NameObject("/AFRelationship"): NameObject(RELATIONSHIP),
+    }))

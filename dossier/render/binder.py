@@ -21,7 +21,7 @@ from __future__ import annotations
 import hashlib
 import html
 import io
-import logging
+import functools
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from datetime import datetime
@@ -29,9 +29,11 @@ from functools import cached_property
 
 from pypdf import PdfReader, PdfWriter
 from pypdf import PageObject
-from pypdf.generic import ArrayObject, DecodedStreamObject, DictionaryObject, FloatObject, IndirectObject, NameObject, StreamObject
+from pypdf.generic import (ArrayObject, DecodedStreamObject, DictionaryObject, FloatObject, IndirectObject, NameObject, PdfObject, StreamObject,
+                           TextStringObject)
 
 from . import archival
+from .pdfupdate import Update
 
 __all__ = ["BoundReport", "bind", "page_count", "stamp_every_page", "overlay_lines", "LINK_PREFIX", "STAMP_FORMAT", "FOOTER_BOTTOM"]
 
@@ -107,6 +109,7 @@ def bind(front: bytes, reports: Sequence[BoundReport], back: bytes, *, title: st
     _stamp(writer)
     writer.add_metadata({"/Title": title, "/Creator": creator, "/Producer": creator})
     archival.declare(writer, [front, *(r.pdf for r in reports), back, title.encode(), creator.encode()], intents_from=front_reader)
+    writer.compress_identical_objects(remove_duplicates=True, remove_unreferenced=True)  # pypdf copies a shared object once per referring page (the sRGB profile)
     out = io.BytesIO()
     writer.write(out)
     return out.getvalue()
@@ -157,25 +160,12 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
     size : float
         Font size, pt.
     """
-    from weasyprint import HTML  # slow to import
-
     if not writer.pages:
         return
     box = writer.pages[0].mediabox
-    width, height = float(box.width), float(box.height)
-    distinct = list(dict.fromkeys(lines))
-    pages = "".join(f'<section><p>{html.escape(t)}</p></section>' for t in distinct)
-    doc = (
-        f"<style>@page {{ size: {width:.2f}pt {height:.2f}pt; margin: 0 }} body {{ margin: 0 }}"
-        f"section {{ position: relative; height: {height - 2:.2f}pt; break-after: page; margin: 0 }}"
-        f"p {{ position: absolute; left: {_STAMP_X:.2f}pt; bottom: {bottom - 2:.2f}pt; margin: 0; font: {size:.2f}pt 'DejaVu Sans'; color: #4a5463; white-space: nowrap }}"
-        f"</style>{pages}"
-    )
-    overlay = PdfReader(io.BytesIO(HTML(string=doc).write_pdf()))
-    if len(overlay.pages) != len(distinct):  # pragma: no cover - one section is one page
-        raise RuntimeError(f"the page stamps took {len(overlay.pages)} pages for {len(distinct)} lines")
-    # a name of its own per line, so that a page stamped twice (dossier.pdf: page number, then fingerprint) keeps both
-    names = {t: NameObject("/Stamp" + hashlib.sha256(t.encode()).hexdigest()[:16]) for t in distinct}
+    distinct = tuple(dict.fromkeys(lines))
+    overlay = PdfReader(io.BytesIO(_overlay(distinct, float(box.width), float(box.height), bottom, size)))
+    names = {t: _stamp_name(t) for t in distinct}
     forms = {t: _form_xobject(writer, over) for t, over in zip(distinct, overlay.pages)}
     draws = {t: writer._add_object(_stream(b"Q\nq " + names[t].encode() + b" Do Q\n")) for t in distinct}
     push = writer._add_object(_stream(b"q\n"))
@@ -189,6 +179,26 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         contents = page.get("/Contents")
         streams = [] if contents is None else list(contents.get_object()) if isinstance(contents.get_object(), ArrayObject) else [contents]
         page[NameObject("/Contents")] = ArrayObject([push, *streams, draws[t]])
+
+
+@functools.lru_cache(maxsize=4)
+def _overlay(lines: tuple[str, ...], width: float, height: float, bottom: float, size: float) -> bytes:
+    """A PDF of one page per line, ``width`` × ``height`` pt, the line ``bottom`` pt from the
+    foot, in the reports' font at ``size`` pt; laid out by WeasyPrint once per process for
+    the same arguments (the fingerprint line is the same on every PDF of a build)."""
+    from weasyprint import HTML  # slow to import
+
+    pages = "".join(f'<section><p>{html.escape(t)}</p></section>' for t in lines)
+    doc = (
+        f"<style>@page {{ size: {width:.2f}pt {height:.2f}pt; margin: 0 }} body {{ margin: 0 }}"
+        f"section {{ position: relative; height: {height - 2:.2f}pt; break-after: page; margin: 0 }}"
+        f"p {{ position: absolute; left: {_STAMP_X:.2f}pt; bottom: {bottom - 2:.2f}pt; margin: 0; font: {size:.2f}pt 'DejaVu Sans'; color: #4a5463; white-space: nowrap }}"
+        f"</style>{pages}"
+    )
+    out = HTML(string=doc).write_pdf()
+    if page_count(out) != len(lines):  # pragma: no cover - one section is one page
+        raise RuntimeError(f"the page stamps took {page_count(out)} pages for {len(lines)} lines")
+    return out
 
 
 def _stream(data: bytes) -> StreamObject:
@@ -223,43 +233,95 @@ def stamp_every_page(pdf: bytes, line: str, *, attachments: Mapping[str, bytes] 
                      bottom: float = FOOTER_BOTTOM, size: float = 6.0) -> bytes:
     """The PDF with ``line`` at the foot of every page (the dossier's fingerprint, say)
     and ``attachments`` ({file name: bytes}, the method files) embedded as
-    associated files of the document (:func:`archival.attach`, with
-    ``modified`` as their date), still PDF/A-3b (:func:`archival.declare`).
+    associated files of the document (:func:`archival.associated_file`, with
+    ``modified`` as their date), still PDF/A-3b: its XMP metadata rewritten
+    from the document information, its file identifier's second part hashed
+    from the content (:func:`archival.identifier`).
 
-    Same inputs give the same bytes; document information and outline are kept.
+    The stamp is an incremental update (:mod:`.pdfupdate`): the original
+    bytes are kept, and appended to them are the line as one form XObject
+    (laid out as in :func:`overlay_lines`), each page again with that form
+    drawn after its own content, the attachments, the catalog and the
+    metadata. Same inputs give the same bytes; document information, outline
+    and every other object are kept as they were.
     """
-    writer = _clone(pdf)
-    overlay_lines(writer, [line] * len(writer.pages), bottom=bottom, size=size)
-    for name, data in sorted((attachments or {}).items()):
-        archival.attach(writer, name, data, modified=modified)
+    update = Update(pdf)
+    reader = update.reader
+    root_ref = reader.trailer.raw_get("/Root")
+    root = DictionaryObject(root_ref.get_object())
+    if "/OutputIntents" not in root:
+        raise ValueError("the PDF has no output intent: it was not laid out as PDF/A")
+    pages = list(reader.pages)
+    if pages:
+        box = pages[0].mediabox
+        overlay = PdfReader(io.BytesIO(_overlay((line,), float(box.width), float(box.height), bottom, size))).pages[0]
+        name = _stamp_name(line)
+        form = update.add(_form(overlay, update))
+        push, draw = update.add(_stream(b"q\n")), update.add(_stream(b"Q\nq " + name.encode() + b" Do Q\n"))
+        shared: dict[int, IndirectObject] = {}  # the page's resources (object number) → resources with the stamp
+        for page in pages:
+            own = page.raw_get("/Resources") if "/Resources" in page else None
+            if isinstance(own, IndirectObject):
+                if own.idnum not in shared:
+                    shared[own.idnum] = update.add(_with_form(own, name, form))
+                resources: PdfObject = shared[own.idnum]
+            else:
+                resources = _with_form(own, name, form)
+            changed = DictionaryObject(page)
+            changed[NameObject("/Resources")] = resources
+            changed[NameObject("/Contents")] = ArrayObject([push, *_content_streams(page), draw])
+            update.replace(page.indirect_reference, changed)
+    files = sorted((attachments or {}).items())
+    if files:
+        specs = [archival.associated_file(update.add, n, data, modified=modified) for n, data in files]
+        names_ref = root.raw_get("/Names") if "/Names" in root else None
+        names = DictionaryObject(names_ref.get_object()) if names_ref is not None else DictionaryObject()
+        if "/EmbeddedFiles" in names:
+            raise ValueError("the PDF has attached files already")
+        names[NameObject("/EmbeddedFiles")] = DictionaryObject({NameObject("/Names"): ArrayObject(
+            item for (n, _), spec in zip(files, specs) for item in (TextStringObject(n), spec))})
+        if isinstance(names_ref, IndirectObject):
+            update.replace(names_ref, names)
+        else:
+            root[NameObject("/Names")] = names
+        root[NameObject("/AF")] = ArrayObject([*(root["/AF"] if "/AF" in root else []), *specs])
+    metadata = DecodedStreamObject()
+    metadata.set_data(archival.xmp_packet({k: str(v) for k, v in (reader.metadata or {}).items()}))
+    metadata.update({NameObject("/Type"): NameObject("/Metadata"), NameObject("/Subtype"): NameObject("/XML")})
+    if isinstance(root.raw_get("/Metadata") if "/Metadata" in root else None, IndirectObject):
+        update.replace(root.raw_get("/Metadata"), metadata)
+    else:
+        root[NameObject("/Metadata")] = update.add(metadata)
+    if not pdf.startswith(b"%PDF-1.7"):
+        root[NameObject("/Version")] = NameObject("/1.7")
+    update.replace(root_ref, root)
     stated = [line.encode(), (modified.isoformat() if modified else "").encode()]
-    archival.declare(writer, [pdf, *stated, *(n.encode() + b"\0" + d for n, d in sorted((attachments or {}).items()))])
-    writer.compress_identical_objects(remove_duplicates=True, remove_unreferenced=True)
-    out = io.BytesIO()
-    writer.write(out)
-    return out.getvalue()
+    new = archival.identifier([pdf, *stated, *(n.encode() + b"\0" + d for n, d in files)])
+    ids = reader.trailer.get("/ID")
+    return update.write(ArrayObject([ids[0] if ids else new, new]))
 
 
-class _CloneCount(logging.Filter):
-    """Drops pypdf's "Object count … exceeds defined trailer size" while a PDF is cloned."""
+def _stamp_name(line: str) -> NameObject:
+    """The XObject name of the stamp of ``line``: one of its own per line, so that a page
+    stamped twice (dossier.pdf: page number, then fingerprint) keeps both."""
+    return NameObject("/Stamp" + hashlib.sha256(line.encode()).hexdigest()[:16])
 
-    def filter(self, record: logging.LogRecord) -> bool:
-        return not record.getMessage().startswith("Object count")
+
+def _content_streams(page: PageObject) -> list[PdfObject]:
+    """The page's content streams as references (none, one, or an array's)."""
+    contents = page.raw_get("/Contents") if "/Contents" in page else None
+    if contents is None:
+        return []
+    return list(contents.get_object()) if isinstance(contents.get_object(), ArrayObject) else [contents]
 
 
-def _clone(pdf: bytes) -> PdfWriter:
-    """A writer holding a copy of ``pdf`` (catalog, outline, names, metadata, identifier).
-
-    pypdf copies an object that many others refer to from inside direct
-    dictionaries once per reference (the sRGB profile of WeasyPrint's
-    transparency groups, about 90 copies of 2.5 kB in a report), and says
-    so in a warning meant for damaged files; the copies are merged again
-    before writing (``compress_identical_objects``), so the warning is
-    silenced here, for this clone only.
-    """
-    log, quiet = logging.getLogger("pypdf._writer"), _CloneCount()
-    log.addFilter(quiet)
-    try:
-        return PdfWriter(clone_from=PdfReader(io.BytesIO(pdf)))
-    finally:
-        log.removeFilter(quiet)
+def _form(page: PageObject, update: Update) -> StreamObject:
+    """Page ``page`` of another PDF as a form XObject, its resources added to ``update``."""
+    form = _stream(page.get_contents().get_data() if page.get_contents() is not None else b"")
+    form.update({
+        NameObject("/Type"): NameObject("/XObject"),
+        NameObject("/Subtype"): NameObject("/Form"),
+        NameObject("/BBox"): ArrayObject([FloatObject(float(v)) for v in page.mediabox]),
+        NameObject("/Resources"): update.imported(page.raw_get("/Resources")),
+    })
+    return form

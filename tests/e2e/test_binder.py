@@ -86,6 +86,7 @@ def test_stamping_and_attaching_keeps_the_pdf_archival(parts) -> None:  # noqa: 
     when = datetime(2026, 1, 1, tzinfo=timezone.utc)
     files = {"alpha.yaml": b"method:\n  id: alpha\n", "beta.yaml": b"method:\n  id: beta\n"}
     out = stamp_every_page(bound, "Dossier fingerprint 0123abcd", attachments=files, modified=when)
+    assert out.startswith(bound)  # an incremental update: the bound PDF's bytes are kept as they were
     assert archival_problems(out) == []
     reader = PdfReader(io.BytesIO(out))
     assert {name: data[0] for name, data in reader.attachments.items()} == files
