@@ -48,12 +48,11 @@ class Update:
     pdf : bytes
         The PDF as it is; it is parsed lazily (only the objects asked for).
 
-    Examples
-    --------
-    >>> update = Update(pdf)                                    # doctest: +SKIP
-    >>> page = update.reader.pages[0]                           # doctest: +SKIP
-    >>> update.replace(page.indirect_reference, changed_page)   # doctest: +SKIP
-    >>> new_pdf = update.write(ids)                             # doctest: +SKIP
+    Notes
+    -----
+    Use: ``update = Update(pdf)``; read what to change from ``update.reader``;
+    ``update.replace(ref, changed)`` for each changed object and
+    ``update.add(obj)`` for each new one; ``update.write(ids)`` gives the new PDF.
     """
 
     def __init__(self, pdf: bytes) -> None:
