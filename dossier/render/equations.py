@@ -5,6 +5,7 @@ script: nothing is fetched at view time."""
 from __future__ import annotations
 
 import io
+from collections.abc import Mapping
 from dataclasses import dataclass
 
 import matplotlib
@@ -16,7 +17,7 @@ from matplotlib.figure import Figure  # noqa: E402
 from .. import __version__  # noqa: E402
 from ..chemistry import ACTIVITY_MODELS, CATALOGUE  # noqa: E402
 
-__all__ = ["Equation", "EXACT_MODEL", "equation_svg", "all_equations"]
+__all__ = ["Equation", "EXACT_MODEL", "equation_svg", "all_equations", "drawn_equations", "reuse_equations"]
 
 
 @dataclass(frozen=True)
@@ -62,8 +63,32 @@ EXACT_MODEL = (
 )
 
 
+_DRAWN: dict[tuple[str, float], bytes] = {}
+"""Equations drawn in this process (or handed in by :func:`reuse_equations`), by (LaTeX, size)."""
+
+
 def equation_svg(latex: str, fontsize: float = 13.0) -> bytes:
-    """One equation as a deterministic SVG."""
+    """One equation as a deterministic SVG, drawn once per process (matplotlib's
+    mathtext; the 27 of the catalogue take about 1 s)."""
+    key = (latex, fontsize)
+    if key not in _DRAWN:
+        _DRAWN[key] = _draw(latex, fontsize)
+    return _DRAWN[key]
+
+
+def drawn_equations() -> dict[tuple[str, float], bytes]:
+    """Every equation drawn so far in this process, {(LaTeX, font size): SVG} (to keep for the next build)."""
+    return dict(_DRAWN)
+
+
+def reuse_equations(drawn: Mapping[tuple[str, float], bytes]) -> None:
+    """Take equations drawn by an earlier build ({(LaTeX, font size): SVG}, :func:`drawn_equations`),
+    instead of drawing them again; the caller keys them by everything that changes the drawing
+    (this code and the matplotlib version)."""
+    _DRAWN.update(drawn)
+
+
+def _draw(latex: str, fontsize: float) -> bytes:
     with matplotlib.rc_context({"svg.hashsalt": "ph-dossier", "svg.fonttype": "path", "mathtext.fontset": "dejavusans"}):
         fig = Figure(figsize=(0.01, 0.01))
         fig.text(0.0, 0.0, f"${latex}$", fontsize=fontsize, color="#1b2a3a")

@@ -16,6 +16,7 @@ from dossier.analysis.method import AnalysisSettings
 from dossier.app import BuildOptions, verify
 from dossier.app import build_dossier as build_module
 from dossier.app.build_dossier import OutputError
+from dossier.layout import LAYOUT
 from dossier.publish import writer as writer_module
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -218,6 +219,28 @@ def test_nothing_changed_recomputes_nothing_and_one_change_recomputes_one(tmp_pa
     third = build(tmp_path, out, pdf=False)
     assert third.recomputed == ("tris-buffer-37c",) and calls == ["tris-buffer-37c"]
     assert verify(out).ok
+
+
+def test_a_rebuild_takes_the_equations_an_earlier_build_drew_from_the_cache(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    from dossier.render import equations, site
+
+    out = tmp_path / "output"
+    build(tmp_path, out, pdf=False)
+    folder = LAYOUT.equation("x").rsplit("/", 1)[0]
+    before = {k: v for k, v in tree(out).items() if k.startswith(folder)}
+    assert before
+    monkeypatch.setattr(equations, "_DRAWN", {})  # as in a new process
+    site._shared_assets.cache_clear()
+    drawn: list[str] = []
+    real = equations._draw
+    monkeypatch.setattr(equations, "_draw", lambda latex, size: drawn.append(latex) or real(latex, size))
+    m = tmp_path / "methods" / "tris-buffer-37c.yaml"
+    m.write_text(m.read_text(encoding="utf-8").replace("max_ph_error: 0.05", "max_ph_error: 0.1"), encoding="utf-8")
+    again = build(tmp_path, out, pdf=False)
+    site._shared_assets.cache_clear()
+    assert again.recomputed == ("tris-buffer-37c",)  # its pages need the equations
+    assert drawn == []
+    assert {k: v for k, v in tree(out).items() if k.startswith(folder)} == before
 
 
 def test_diff_and_the_changes_page(tmp_path: Path) -> None:
