@@ -158,6 +158,12 @@ class WorkerLost(UserError):
                          "Run the command again; with --workers 1 it needs less memory")
 
 
+def _preload() -> None:
+    """Import what every method job needs and the application does not import at start
+    (matplotlib, through the figure modules), so that forked workers find it imported."""
+    from ..render import figure_robustness, figures  # noqa: F401
+
+
 class WorkerPool:
     """Runs jobs in worker processes when there are workers and more than one
     job, else in this one.
@@ -199,6 +205,7 @@ class WorkerPool:
 
     def _start(self, jobs: int) -> ProcessPoolExecutor | None:
         if self.executor is None and self.workers > 1 and jobs > 1:
+            _preload()
             context = multiprocessing.get_context("fork" if sys.platform == "linux" else "spawn")
             self._starts = context.SimpleQueue()
             self.executor = ProcessPoolExecutor(max_workers=min(self.workers, jobs), mp_context=context, initializer=_worker_init, initargs=(self._starts,))

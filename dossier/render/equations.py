@@ -8,14 +8,8 @@ import io
 from collections.abc import Mapping
 from dataclasses import dataclass
 
-import matplotlib
-
-matplotlib.use("Agg")
-
-from matplotlib.figure import Figure  # noqa: E402
-
-from .. import __version__  # noqa: E402
-from ..chemistry import ACTIVITY_MODELS, CATALOGUE  # noqa: E402
+from .. import __version__
+from ..chemistry import ACTIVITY_MODELS, CATALOGUE
 
 __all__ = ["Equation", "EXACT_MODEL", "equation_svg", "all_equations", "drawn_equations", "reuse_equations"]
 
@@ -89,6 +83,11 @@ def reuse_equations(drawn: Mapping[tuple[str, float], bytes]) -> None:
 
 
 def _draw(latex: str, fontsize: float) -> bytes:
+    import matplotlib  # imported here: verify and the catalogue need the equations' text, not matplotlib
+
+    matplotlib.use("Agg")
+    from matplotlib.figure import Figure
+
     with matplotlib.rc_context({"svg.hashsalt": "ph-dossier", "svg.fonttype": "path", "mathtext.fontset": "dejavusans"}):
         fig = Figure(figsize=(0.01, 0.01))
         fig.text(0.0, 0.0, f"${latex}$", fontsize=fontsize, color="#1b2a3a")

@@ -23,14 +23,13 @@ from ..inputs.model import METHOD_FILE, Method
 from ..inputs.substances import STATUS_MEANINGS, SubstanceTable
 from ..layout import LAYOUT
 from .equations import EXACT_MODEL, all_equations, equation_svg
-from .figures import FigureFile, method_figures
-from .figure_robustness import robustness_figures
 from .buildinfo import BuildInfo, RecordedSignature
 from .context import BuildContext
 from .html import render
 
 if TYPE_CHECKING:
     from ..analysis.changes import DossierDiff
+    from .figures import FigureFile
 
 __all__ = ["BuildInfo", "BuildContext", "RefView", "shared_assets", "data_files", "render_method", "render_dossier", "references_for"]
 
@@ -194,6 +193,9 @@ def render_method(a: MethodAnalysis, ledger: Ledger, ctx: BuildContext) -> dict[
     """
     mid = a.method.id
     files = data_files(a, ctx.table.sha256)
+    from .figure_robustness import robustness_figures  # matplotlib, imported where figures are drawn (not by verify)
+    from .figures import method_figures
+
     figures = method_figures(a) + robustness_figures(a) if ctx.figures else ()
     for f in figures:
         files[LAYOUT.figure(mid, f.stem, "svg")] = f.svg
