@@ -27,8 +27,8 @@ EQUATIONS = {
     "van-t-hoff": "pKa converted to I = 0 and 25 °C, then to the working temperature (van 't Hoff with ΔCp°)",
     "gum-jcgm-100": "law of propagation of uncertainty, JCGM 100:2008 §5.1.2",
     "monte-carlo-jcgm-101": "Monte Carlo propagation, JCGM 101:2008, seeded PCG64",
-    "validity-brent": "crossing of the acceptance limit, grid and Brent's method (0.1 % in concentration, 0.001 in pKa)",
-    "working-range-maximum": "largest |error| over the working range, grid and bounded minimization",
+    "validity-crossing": "crossing of the acceptance limit, grid, then batches of points within the crossing's grid cell (0.1 % in concentration, 0.001 in pKa)",
+    "working-range-maximum": "largest |error| over the working range, grid, then batches of points around the largest value",
     "operating-region-maximum": "largest |error| over the operating region (working range × temperature ± tolerance × background ± tolerance), grid and L-BFGS-B",
     "conformity-jcgm-106": "conformity probability P(|shortcut pH − true pH| ≤ limit), JCGM 106:2012 §7.3 (GUM closed form or Monte Carlo count)",
     "buffer-capacity": "β = dC_b/dpH from the analytic derivative of the charge balance (Van Slyke 1922)",
@@ -75,11 +75,11 @@ def _shortcut_entries(sa: SolutionAnalysis, s: ShortcutAnalysis) -> list[Entry]:
         Entry(f"{base}/max_abs_error_at", v.max_abs_error_at, "mol/L", f"where the largest |error| occurs ({first})", "working-range-maximum", sid),
     ]
     for i, iv in enumerate(v.concentration_intervals):
-        out.append(Entry(f"{base}/validity_total/{i}/low", iv.low, "mol/L", f"lower end of validity interval {i + 1} ({first})", "validity-brent", sid))
-        out.append(Entry(f"{base}/validity_total/{i}/high", iv.high, "mol/L", f"upper end of validity interval {i + 1} ({first})", "validity-brent", sid))
+        out.append(Entry(f"{base}/validity_total/{i}/low", iv.low, "mol/L", f"lower end of validity interval {i + 1} ({first})", "validity-crossing", sid))
+        out.append(Entry(f"{base}/validity_total/{i}/high", iv.high, "mol/L", f"upper end of validity interval {i + 1} ({first})", "validity-crossing", sid))
     for i, iv in enumerate(v.pka_intervals):
-        out.append(Entry(f"{base}/validity_pka/{i}/low", iv.low, "pKa", f"lower end of pKa interval {i + 1}", "validity-brent", sid))
-        out.append(Entry(f"{base}/validity_pka/{i}/high", iv.high, "pKa", f"upper end of pKa interval {i + 1}", "validity-brent", sid))
+        out.append(Entry(f"{base}/validity_pka/{i}/low", iv.low, "pKa", f"lower end of pKa interval {i + 1}", "validity-crossing", sid))
+        out.append(Entry(f"{base}/validity_pka/{i}/high", iv.high, "pKa", f"upper end of pKa interval {i + 1}", "validity-crossing", sid))
     cu = s.constants_used
     if s.claimed and cu is not None:
         name = sa.spec.lead_name

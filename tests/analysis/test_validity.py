@@ -120,3 +120,23 @@ def test_pka_sweep_shifts_every_step_of_the_substance() -> None:
     assert v.pka_step == (0, 1)  # the H2PO4-/HPO4 2- step
     sol = solution_for(spec, m.conditions, Variation(pka_shift_all={0: 0.5, 1: 0.5}))
     assert sol.components[0].protolyte.pka[1] == sol.components[1].protolyte.pka[1] == pytest.approx(7.698)
+
+
+def test_a_crossing_is_refined_in_batches_to_the_inside_of_the_limit() -> None:
+    """|f| = limit for f(x) = x² − 2 at x = √(2 ± limit): found between two grid points to within a
+    hundredth of the tolerance, on the side where |f| ≤ limit; a cell where |f| passes the limit
+    twice gives the first crossing seen from the inside end."""
+    import math
+
+    from dossier.analysis.validity import _crossing, _peak
+
+    f = lambda x: np.asarray(x) ** 2 - 2.0  # noqa: E731
+    limit, tol = 0.05, 1e-3
+    up = _crossing(f, 1.40, 1.50, float(f(1.40)), float(f(1.50)), limit, tol)  # inside at 1.40
+    assert abs(f(up)) <= limit and 0 <= math.sqrt(2 + limit) - up <= tol / 50
+    down = _crossing(f, 1.30, 1.42, float(f(1.30)), float(f(1.42)), limit, tol)  # inside at 1.42, outside below
+    assert abs(f(down)) <= limit and 0 <= down - math.sqrt(2 - limit) <= tol / 50
+    wave = lambda x: np.sin(np.asarray(x))  # noqa: E731 - inside at both ends; |sin| passes 0.5 at π/6 first, back at 5π/6
+    assert _crossing(wave, 0.0, 2.8, 0.0, float(wave(2.8)), 0.5, tol) == pytest.approx(math.pi / 6, abs=tol)
+    peak, at = _peak(lambda x: 1.0 - (np.asarray(x) - 0.3137) ** 2, 0.0, 1.0, 1e-4)
+    assert at == pytest.approx(0.3137, abs=1e-4) and peak == pytest.approx(1.0, abs=1e-8)
