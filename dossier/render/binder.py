@@ -166,7 +166,7 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
     distinct = tuple(dict.fromkeys(lines))
     overlay = PdfReader(io.BytesIO(_overlay(distinct, float(box.width), float(box.height), bottom, size)))
     names = {t: _stamp_name(t) for t in distinct}
-    forms = {t: _form_xobject(writer, over) for t, over in zip(distinct, overlay.pages)}
+    forms = {t: writer._add_object(_form(over, over["/Resources"].get_object().clone(writer))) for t, over in zip(distinct, overlay.pages)}
     draws = {t: writer._add_object(_stream(b"Q\nq " + names[t].encode() + b" Do Q\n")) for t in distinct}
     push = writer._add_object(_stream(b"q\n"))
     shared: dict[tuple[object, str], IndirectObject] = {}  # (the page's resources, line) → resources with the stamp
@@ -176,9 +176,7 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         if key not in shared:
             shared[key] = writer._add_object(_with_form(own, names[t], forms[t]))
         page[NameObject("/Resources")] = shared[key]
-        contents = page.get("/Contents")
-        streams = [] if contents is None else list(contents.get_object()) if isinstance(contents.get_object(), ArrayObject) else [contents]
-        page[NameObject("/Contents")] = ArrayObject([push, *streams, draws[t]])
+        page[NameObject("/Contents")] = ArrayObject([push, *_content_streams(page), draws[t]])
 
 
 @functools.lru_cache(maxsize=4)
@@ -206,18 +204,6 @@ def _stream(data: bytes) -> StreamObject:
     raw = DecodedStreamObject()
     raw.set_data(data)
     return raw.flate_encode()
-
-
-def _form_xobject(writer: PdfWriter, page: PageObject) -> IndirectObject:
-    """Page ``page`` of another PDF as a form XObject of ``writer`` (its resources copied in)."""
-    form = _stream(page.get_contents().get_data() if page.get_contents() is not None else b"")
-    form.update({
-        NameObject("/Type"): NameObject("/XObject"),
-        NameObject("/Subtype"): NameObject("/Form"),
-        NameObject("/BBox"): ArrayObject([FloatObject(float(v)) for v in page.mediabox]),
-        NameObject("/Resources"): page["/Resources"].get_object().clone(writer),
-    })
-    return writer._add_object(form)
 
 
 def _with_form(resources: object, name: NameObject, form: IndirectObject) -> DictionaryObject:
@@ -256,7 +242,7 @@ def stamp_every_page(pdf: bytes, line: str, *, attachments: Mapping[str, bytes] 
         box = pages[0].mediabox
         overlay = PdfReader(io.BytesIO(_overlay((line,), float(box.width), float(box.height), bottom, size))).pages[0]
         name = _stamp_name(line)
-        form = update.add(_form(overlay, update))
+        form = update.add(_form(overlay, update.imported(overlay.raw_get("/Resources"))))
         push, draw = update.add(_stream(b"q\n")), update.add(_stream(b"Q\nq " + name.encode() + b" Do Q\n"))
         shared: dict[int, IndirectObject] = {}  # the page's resources (object number) → resources with the stamp
         for page in pages:
@@ -315,13 +301,14 @@ def _content_streams(page: PageObject) -> list[PdfObject]:
     return list(contents.get_object()) if isinstance(contents.get_object(), ArrayObject) else [contents]
 
 
-def _form(page: PageObject, update: Update) -> StreamObject:
-    """Page ``page`` of another PDF as a form XObject, its resources added to ``update``."""
+def _form(page: PageObject, resources: PdfObject) -> StreamObject:
+    """Page ``page`` of another PDF as a form XObject, with ``resources`` (its own, copied
+    into the PDF the form goes into)."""
     form = _stream(page.get_contents().get_data() if page.get_contents() is not None else b"")
     form.update({
         NameObject("/Type"): NameObject("/XObject"),
         NameObject("/Subtype"): NameObject("/Form"),
         NameObject("/BBox"): ArrayObject([FloatObject(float(v)) for v in page.mediabox]),
-        NameObject("/Resources"): update.imported(page.raw_get("/Resources")),
+        NameObject("/Resources"): resources,
     })
     return form
