@@ -21,11 +21,10 @@ from __future__ import annotations
 import hashlib
 import html
 import io
-import functools
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from datetime import datetime
-from functools import cached_property
+from functools import cached_property, lru_cache
 
 from pypdf import PdfReader, PdfWriter
 from pypdf import PageObject
@@ -179,7 +178,7 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         page[NameObject("/Contents")] = ArrayObject([push, *_content_streams(page), draws[t]])
 
 
-@functools.lru_cache(maxsize=4)
+@lru_cache(maxsize=4)
 def _overlay(lines: tuple[str, ...], width: float, height: float, bottom: float, size: float) -> bytes:
     """A PDF of one page per line, ``width`` × ``height`` pt, the line ``bottom`` pt from the
     foot, in the reports' font at ``size`` pt; laid out by WeasyPrint once per process for
