@@ -3,18 +3,19 @@
 WeasyPrint lays out every PDF of the dossier as PDF/A-3b (:data:`PDF_VARIANT`):
 every font embedded (as a subset), an sRGB output intent with its ICC
 profile, XMP metadata that declares part 3, conformance B, a file
-identifier, and printable annotations. The binder then merges, stamps and
-attaches with pypdf, which knows nothing of PDF/A; this module puts back
-what PDF/A asks of the file it writes:
+identifier, and printable annotations. The binder then merges with pypdf,
+which knows nothing of PDF/A, and stamps and attaches by an incremental
+update; this module gives both what PDF/A asks of the file they write:
 
 - :func:`declare`: the catalog's XMP metadata, rewritten from the document
   information so the two agree (ISO 19005-3, 6.6.2 and 6.6.3), the output
   intent (copied from a laid-out part when the writer has none), the header
-  ``%PDF-1.7`` and a file identifier derived from the content (same inputs,
-  same bytes).
-- :func:`attach`: an embedded file as an *associated file* (ISO 19005-3, 6.8):
-  its MIME type, the ``F`` and ``UF`` names, ``AFRelationship``, its
-  modification date, and its file specification listed in the catalog's ``AF``.
+  ``%PDF-1.7`` and a file identifier derived from the content
+  (:func:`identifier`: same inputs, same bytes).
+- :func:`associated_file`: an embedded file as an *associated file*
+  (ISO 19005-3, 6.8): its MIME type, the ``F`` and ``UF`` names,
+  ``AFRelationship`` and its modification date (:func:`pdf_date`); the caller
+  lists its file specification in the catalog's ``AF``.
 
 What is checked of the result and what is not is in docs/reliability.md
 ("Archival PDF"); no full PDF/A validator runs here.
@@ -31,7 +32,7 @@ from pypdf import PdfReader, PdfWriter
 from pypdf.generic import (ArrayObject, ByteStringObject, DecodedStreamObject, DictionaryObject, IndirectObject, NameObject, NumberObject,
                            PdfObject, TextStringObject)
 
-__all__ = ["PDF_VARIANT", "PDFA_PART", "PDFA_CONFORMANCE", "RELATIONSHIP", "declare", "associated_file", "identifier", "xmp_packet"]
+__all__ = ["PDF_VARIANT", "PDFA_PART", "PDFA_CONFORMANCE", "RELATIONSHIP", "declare", "associated_file", "identifier", "pdf_date", "xmp_packet"]
 
 PDF_VARIANT = "pdf/a-3b"
 """WeasyPrint's name of the PDF variant every PDF of the dossier is laid out as."""
@@ -126,7 +127,12 @@ def declare(writer: PdfWriter, content: Iterable[bytes], *, intents_from: PdfRea
 
 
 def pdf_date(moment: datetime) -> str:
-    """``moment`` as a PDF date, ``D:YYYYMMDDHHmmSS+HH'mm'`` (ISO 32000-1, 7.9.4); a naive moment is taken as UTC."""
+    """``moment`` as a PDF date, ``D:YYYYMMDDHHmmSS+HH'mm'`` (ISO 32000-1, 7.9.4); a naive moment is taken as UTC.
+
+    >>> from datetime import timedelta, timezone
+    >>> pdf_date(datetime(2026, 1, 2, 3, 4, 5, tzinfo=timezone(timedelta(hours=-5, minutes=-30))))
+    "D:20260102030405-05'30'"
+    """
     offset = moment.utcoffset()
     minutes = 0 if offset is None else int(offset.total_seconds()) // 60
     sign = "-" if minutes < 0 else "+"
