@@ -12,8 +12,9 @@ on the error itself, to 0.1 % in concentration and 0.001 in pKa, by
 subdividing the grid cell it lies in: :data:`REFINE_POINTS` points at a
 time, each batch one solve of the engine (which costs about what one point
 does), so that two batches reach a hundredth of the tolerance where Brent's
-method took five to seven solves one point at a time for the tolerance; the end returned is the last
-point on the side where the shortcut holds (never beyond the crossing). The
+method took five to seven solves one point at a time for the tolerance; the
+end returned is the last point on the side where the shortcut holds (never
+beyond the crossing). The
 largest |error| over the working range is found the same way, around the
 largest grid value. Because the assumptions of a shortcut can
 err in opposite directions, the set can be several intervals; each says
@@ -303,17 +304,18 @@ def _crossing(f, a: float, b: float, fa: float, fb: float, limit: float, tol: fl
     The cell is cut into :data:`REFINE_POINTS` points at a time, ``f`` evaluated on
     all of them in one call, and the cut repeated on the sub-cell where |f| first
     passes the limit, until that sub-cell is narrower than a hundredth of ``tol``
-    (two batches from a grid cell of the sweeps). When no point
-    but the outside end passes it (a noisy end), the last inside point is kept; when
-    the inside end itself does not hold when evaluated again, it is kept as it is.
+    (two batches from a grid cell of the sweeps). When no point of a batch passes the
+    limit (the outside end, solved again, holds after all), or the inside end itself
+    does not hold when solved again, the inside end is returned as it is, as Brent's
+    method did when the crossing was not bracketed.
     """
     inside, outside = (a, b) if abs(fa) <= limit else (b, a)
     while abs(outside - inside) > tol / _FINER:
         x = np.linspace(inside, outside, REFINE_POINTS)
         out = np.abs(np.asarray(f(x), dtype=np.float64)) > limit
         k = int(np.argmax(out))  # the first point past the limit, walking from the inside end
-        if not out[k] or k == 0:
-            return float(inside) if k == 0 else float(x[-2])
+        if k == 0:  # nothing past the limit, or the inside end itself past it
+            return float(inside)
         inside, outside = float(x[k - 1]), float(x[k])
     return float(inside)
 

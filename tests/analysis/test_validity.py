@@ -138,5 +138,7 @@ def test_a_crossing_is_refined_in_batches_to_the_inside_of_the_limit() -> None:
     assert abs(f(down)) <= limit and 0 <= down - math.sqrt(2 - limit) <= tol / 50
     wave = lambda x: np.sin(np.asarray(x))  # noqa: E731 - inside at both ends; |sin| passes 0.5 at π/6 first, back at 5π/6
     assert _crossing(wave, 0.0, 2.8, 0.0, float(wave(2.8)), 0.5, tol) == pytest.approx(math.pi / 6, abs=tol)
+    flat = lambda x: np.zeros_like(np.asarray(x, dtype=float))  # noqa: E731 - the "outside" end holds when solved again
+    assert _crossing(flat, 1.0, 2.0, 0.0, 0.06, limit, tol) == 1.0  # the inside end, as when no crossing is bracketed
     peak, at = _peak(lambda x: 1.0 - (np.asarray(x) - 0.3137) ** 2, 0.0, 1.0, 1e-4)
     assert at == pytest.approx(0.3137, abs=1e-4) and peak == pytest.approx(1.0, abs=1e-8)
