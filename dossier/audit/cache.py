@@ -4,10 +4,10 @@ The key of a method is the SHA-256 of its method file's bytes, the substance
 table, the tool's own code and templates (its *fingerprint*), the analysis
 settings and whether PDFs are made. The key of the dossier-wide pages adds
 the keys of all methods. The build also keeps the equations it drew
-(``equations``, keyed by the tool's fingerprint and the matplotlib version). Entries are pickles in a folder beside the output
-(``.NAME.cache``); after a successful build the entries it did not use are
-removed. The folder is the user's own: like any cache of pickles it must not
-be writable by others.
+(``equations``, keyed by the tool's fingerprint and the matplotlib version).
+Entries are pickles in a folder beside the output (``.NAME.cache``); after a
+successful build the entries it did not use are removed. The folder is the
+user's own: like any cache of pickles it must not be writable by others.
 """
 
 from __future__ import annotations
