@@ -106,3 +106,16 @@ def unembedded_fonts(path: Path, pdffonts: str) -> list[str]:
     if not rows:
         raise AssertionError(f"{path.name}: pdffonts lists no font")
     return [row for row in rows if row.split()[-5] != "yes"]
+
+
+def qpdf_problems(pdf: bytes | Path) -> list[str]:
+    """What qpdf (through pikepdf, independent of pypdf and poppler) finds wrong in the file's
+    structure: its syntax check, and any warning while every object is read (a cross-reference
+    it had to repair, a stream of the wrong length). Empty: none."""
+    import pikepdf
+
+    source = io.BytesIO(pdf) if isinstance(pdf, bytes) else pdf
+    with pikepdf.open(source) as doc:
+        for _ in doc.objects:
+            pass
+        return [*doc.check_pdf_syntax(), *doc.get_warnings()]

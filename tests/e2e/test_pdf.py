@@ -133,14 +133,16 @@ def test_the_cautions_stand_once_in_each_report_on_its_cover(built: Path) -> Non
 
 def test_every_demo_pdf_is_archival_with_its_fonts_embedded_and_method_files_attached(built: Path) -> None:
     """PDF/A-3b as far as tests/pdfa.py reads it (XMP part 3 / conformance B, output intent,
-    identifier, printable annotations, associated files), every font embedded by pdffonts
-    (poppler-utils), and the method files attached: a report its own, dossier.pdf every one."""
-    from ..pdfa import archival_problems, unembedded_fonts
+    identifier, printable annotations, associated files), a structure qpdf reads without a
+    warning, every font embedded by pdffonts (poppler-utils), and the method files attached:
+    a report its own, dossier.pdf every one."""
+    from ..pdfa import archival_problems, qpdf_problems, unembedded_fonts
 
     pdffonts = require_executable("pdffonts", "lists the PDFs' fonts")
     sources = {f"{mid}.yaml": (built / "methods" / mid / f"{mid}.yaml").read_bytes() for mid in method_ids()}
     pdfs = {built / "dossier.pdf": sources} | {built / "methods" / mid / f"{mid}.pdf": {f"{mid}.yaml": sources[f"{mid}.yaml"]} for mid in method_ids()}
     for pdf, attached in pdfs.items():
         assert archival_problems(pdf) == [], pdf.name
+        assert qpdf_problems(pdf) == [], pdf.name  # the stamp's incremental update included
         assert unembedded_fonts(pdf, pdffonts) == [], pdf.name
         assert {name: data[0] for name, data in PdfReader(str(pdf)).attachments.items()} == attached, pdf.name

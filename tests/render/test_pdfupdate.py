@@ -17,6 +17,7 @@ from pypdf import PdfReader, PdfWriter
 from pypdf.generic import ArrayObject, ByteStringObject, DictionaryObject, IndirectObject, NameObject, NumberObject, TextStringObject
 
 from dossier.render.pdfupdate import Update
+from tests.pdfa import qpdf_problems
 
 
 def _weasyprint_pdf() -> bytes:
@@ -77,6 +78,7 @@ def test_an_update_keeps_the_original_bytes_and_points_at_every_object_it_wrote(
             packed[n] = (second, third)
     assert {page.indirect_reference.idnum, note.idnum} <= set(packed)
 
+    assert qpdf_problems(out) == []
     reader = PdfReader(io.BytesIO(out), strict=True)
     assert reader.pages[1]["/PieceInfo"]["/Note"] == "added"
     if make is _weasyprint_pdf:
@@ -122,3 +124,15 @@ def test_imported_objects_are_renumbered_into_the_update() -> None:
 def test_a_pdf_cut_short_is_refused() -> None:
     with pytest.raises(ValueError, match="startxref"):
         Update(_pypdf_pdf()[:-20])
+
+
+def test_the_structure_check_fails_an_update_whose_offsets_are_wrong() -> None:
+    """The qpdf check used on every PDF of the demo (tests/pdfa.py) can fail: bytes slipped in
+    before the update leave every offset of its cross-reference stream a few bytes off."""
+    original = _weasyprint_pdf()
+    update = Update(original)
+    update.add(DictionaryObject({NameObject("/Count"): NumberObject(3)}))
+    out = update.write(ArrayObject([ByteStringObject(b"a" * 16), ByteStringObject(b"b" * 16)]))
+    assert qpdf_problems(out) == []
+    shifted = out[:len(original)] + b"%slipped%\n" + out[len(original):]
+    assert any("xref" in p or "damaged" in p for p in qpdf_problems(shifted))
