@@ -41,7 +41,7 @@ from ..publish.staging import PublishError, check_replaceable, output_lock, remo
 from ..publish.writer import Writer
 from ..render.buildinfo import STAMP_PLACEHOLDER, BuildInfo, RecordedSignature
 from ..render.context import BuildContext
-from ..render.equations import drawn_equations, reuse_equations
+from ..render import memo
 from ..render.site import render_dossier
 from .errors import UserError
 from .revisions import revision_problems
@@ -217,7 +217,7 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
         info = BuildInfo(__version__, build_time(), platform.python_version(), dependency_versions(), table.sha256, opts.settings.draws, opts.settings.seed, opts.settings.adaptive)
         ctx = BuildContext(table, opts.settings, info, pdf=opts.pdf and opts.site, site=opts.site, figures=opts.figures or opts.site)
         store = Cache.beside(out) if opts.cache else None
-        drawn = _reuse_equations(store)
+        drawn = _reuse_drawings(store)
         with WorkerPool(max(1, opts.workers or os.cpu_count() or 1)) as pool:
             outcomes, recomputed = _method_outcomes(inputs.methods, ctx, store, pool, rep, timings)
             diff = None if previous is None else replace(
@@ -225,28 +225,30 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
                 old_fingerprint=previous_identity[0], old_built=previous_identity[1])
             files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
             written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings, pool)
-        if store and not drawn:
-            store.put("equations", _equations_key(), drawn_equations())
+        if store and memo.kept() != drawn:
+            store.put("drawings", _drawings_key(), memo.kept())
         retire_signatures(out, fingerprint)  # they signed the build this one replaced (listed on its pages)
         if store:
             store.prune()  # what this build did not use
     return BuildOutcome(True, problems, out, written, timings, tuple(o.analysis for o in outcomes), recomputed, fingerprint)
 
 
-def _equations_key() -> str:
-    """Cache key of the drawn equations: this code and the matplotlib that draws them."""
-    import matplotlib
+def _drawings_key() -> str:
+    """Cache key of the drawings kept from build to build (:mod:`~dossier.render.memo`): this
+    code and the versions of the libraries that draw them."""
+    from importlib.metadata import version
 
-    return hashlib.sha256(f"{tool_fingerprint()} matplotlib {matplotlib.__version__}".encode()).hexdigest()
+    return hashlib.sha256(f"{tool_fingerprint()} matplotlib {version('matplotlib')} weasyprint {version('weasyprint')}".encode()).hexdigest()
 
 
-def _reuse_equations(store: Cache | None) -> bool:
-    """Hand the equations an earlier build drew (kept in ``store``) to this process, before any
-    worker is forked from it, so that neither draws them again (about 1 s); True if there were any."""
-    drawn = store.get("equations", _equations_key(), dict) if store else None
-    if drawn:
-        reuse_equations(drawn)
-    return bool(drawn)
+def _reuse_drawings(store: Cache | None) -> dict[str, Any]:
+    """Hand the drawings an earlier build kept in ``store`` (equations, page stamps) to this
+    process, before any worker is forked from it, so that neither draws them again; what was
+    handed over ({} if nothing)."""
+    kept = store.get("drawings", _drawings_key(), dict) if store else None
+    if kept:
+        memo.reuse(kept)
+    return kept or {}
 
 
 def _previous_ledgers(previous: Path | None) -> dict[str, Ledger] | None:

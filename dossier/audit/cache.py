@@ -3,8 +3,10 @@
 The key of a method is the SHA-256 of its method file's bytes, the substance
 table, the tool's own code and templates (its *fingerprint*), the analysis
 settings and whether PDFs are made. The key of the dossier-wide pages adds
-the keys of all methods. The build also keeps the equations it drew
-(``equations``, keyed by the tool's fingerprint and the matplotlib version).
+the keys of all methods. The build also keeps what it drew that does not
+depend on the methods (``drawings``: the equations and the page-number
+lines, :mod:`dossier.render.memo`), keyed by the tool's fingerprint and the
+versions of matplotlib and WeasyPrint.
 Entries are pickles in a folder beside the output (``.NAME.cache``); after a
 successful build the entries it did not use are removed. The folder is the
 user's own: like any cache of pickles it must not be writable by others.

@@ -24,7 +24,7 @@ import io
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from datetime import datetime
-from functools import cached_property, lru_cache
+from functools import cached_property
 
 from pypdf import PdfReader, PdfWriter
 from pypdf import PageObject
@@ -32,6 +32,7 @@ from pypdf.generic import (ArrayObject, DecodedStreamObject, DictionaryObject, F
                            TextStringObject)
 
 from . import archival
+from .memo import Memo
 from .pdfupdate import Update
 
 __all__ = ["BoundReport", "bind", "page_count", "stamp_every_page", "overlay_lines", "LINK_PREFIX", "STAMP_FORMAT", "FOOTER_BOTTOM"]
@@ -178,11 +179,16 @@ def overlay_lines(writer: PdfWriter, lines: Sequence[str], *, bottom: float, siz
         page[NameObject("/Contents")] = ArrayObject([push, *_content_streams(page), draws[t]])
 
 
-@lru_cache(maxsize=4)
 def _overlay(lines: tuple[str, ...], width: float, height: float, bottom: float, size: float) -> bytes:
     """A PDF of one page per line, ``width`` × ``height`` pt, the line ``bottom`` pt from the
-    foot, in the reports' font at ``size`` pt; laid out by WeasyPrint once per process for
-    the same arguments (the fingerprint line is the same on every PDF of a build)."""
+    foot, in the reports' font at ``size`` pt; laid out by WeasyPrint once for the same
+    arguments (the fingerprint line is the same on every PDF of a build, the page numbers of
+    dossier.pdf the same from build to build while its page count is), :mod:`.memo`."""
+    return _LAID_OUT((lines, width, height, bottom, size))
+
+
+def _lay_out(key: tuple[tuple[str, ...], float, float, float, float]) -> bytes:
+    lines, width, height, bottom, size = key
     from weasyprint import HTML  # slow to import
 
     pages = "".join(f'<section><p>{html.escape(t)}</p></section>' for t in lines)
@@ -196,6 +202,9 @@ def _overlay(lines: tuple[str, ...], width: float, height: float, bottom: float,
     if page_count(out) != len(lines):  # pragma: no cover - one section is one page
         raise RuntimeError(f"the page stamps took {page_count(out)} pages for {len(lines)} lines")
     return out
+
+
+_LAID_OUT = Memo("page stamps", _lay_out)
 
 
 def _stream(data: bytes) -> StreamObject:

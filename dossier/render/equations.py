@@ -5,13 +5,13 @@ script: nothing is fetched at view time."""
 from __future__ import annotations
 
 import io
-from collections.abc import Mapping
 from dataclasses import dataclass
 
 from .. import __version__
 from ..chemistry import ACTIVITY_MODELS, CATALOGUE
+from .memo import Memo
 
-__all__ = ["Equation", "EXACT_MODEL", "equation_svg", "all_equations", "drawn_equations", "reuse_equations"]
+__all__ = ["Equation", "EXACT_MODEL", "equation_svg", "all_equations"]
 
 
 @dataclass(frozen=True)
@@ -57,32 +57,14 @@ EXACT_MODEL = (
 )
 
 
-_DRAWN: dict[tuple[str, float], bytes] = {}
-"""Equations drawn in this process (or handed in by :func:`reuse_equations`), by (LaTeX, size)."""
-
-
 def equation_svg(latex: str, fontsize: float = 13.0) -> bytes:
-    """One equation as a deterministic SVG, drawn once per process (matplotlib's
-    mathtext; the 27 of the catalogue take about 1 s)."""
-    key = (latex, fontsize)
-    if key not in _DRAWN:
-        _DRAWN[key] = _draw(latex, fontsize)
-    return _DRAWN[key]
+    """One equation as a deterministic SVG, drawn once (matplotlib's mathtext; the 27
+    of the catalogue take about 1 s), and kept for the next build (:mod:`.memo`)."""
+    return _DRAWN((latex, fontsize))
 
 
-def drawn_equations() -> dict[tuple[str, float], bytes]:
-    """Every equation drawn so far in this process, {(LaTeX, font size): SVG} (to keep for the next build)."""
-    return dict(_DRAWN)
-
-
-def reuse_equations(drawn: Mapping[tuple[str, float], bytes]) -> None:
-    """Take equations drawn by an earlier build ({(LaTeX, font size): SVG}, :func:`drawn_equations`),
-    instead of drawing them again; the caller keys them by everything that changes the drawing
-    (this code and the matplotlib version)."""
-    _DRAWN.update(drawn)
-
-
-def _draw(latex: str, fontsize: float) -> bytes:
+def _draw(key: tuple[str, float]) -> bytes:
+    latex, fontsize = key
     import matplotlib  # imported here: verify and the catalogue need the equations' text, not matplotlib
 
     matplotlib.use("Agg")
@@ -103,3 +85,6 @@ def all_equations() -> tuple[Equation, ...]:
     out += [Equation(f"activity-{m.id}", m.equation, f"{m.title}.") for m in ACTIVITY_MODELS.values()]
     out += [Equation(f"shortcut-{a.id}", a.equation, f"{a.title}.") for a in CATALOGUE.values()]
     return tuple(out)
+
+
+_DRAWN = Memo("equations", _draw)

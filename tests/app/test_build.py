@@ -221,25 +221,29 @@ def test_nothing_changed_recomputes_nothing_and_one_change_recomputes_one(tmp_pa
     assert verify(out).ok
 
 
-def test_a_rebuild_takes_the_equations_an_earlier_build_drew_from_the_cache(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
-    from dossier.render import equations, site
+def test_a_rebuild_takes_the_drawings_an_earlier_build_made_from_the_cache(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    """The equations and the "dossier page N of T" lines are drawn by the first build only: a
+    second process (memos emptied) with one method changed draws no equation and lays out only
+    the new fingerprint line, and publishes the same equation files."""
+    from dossier.render import binder, equations, site
 
     out = tmp_path / "output"
-    build(tmp_path, out, pdf=False)
+    build(tmp_path, out, pdf=True)
     folder = LAYOUT.equation("x").rsplit("/", 1)[0]
     before = {k: v for k, v in tree(out).items() if k.startswith(folder)}
     assert before
-    monkeypatch.setattr(equations, "_DRAWN", {})  # as in a new process
-    site._shared_assets.cache_clear()
-    drawn: list[str] = []
-    real = equations._draw
-    monkeypatch.setattr(equations, "_draw", lambda latex, size: drawn.append(latex) or real(latex, size))
+    made: list[object] = []
+    for m in (equations._DRAWN, binder._LAID_OUT):  # as in a new process: nothing made yet, and count what is
+        monkeypatch.setattr(m, "_done", {})
+        monkeypatch.setattr(m, "_used", set())
+        real = m._make
+        monkeypatch.setattr(m, "_make", lambda key, real=real: made.append(key) or real(key))
+    site._shared_assets.cache_clear()  # the equations are asked for again
     m = tmp_path / "methods" / "tris-buffer-37c.yaml"
-    m.write_text(m.read_text(encoding="utf-8").replace("max_ph_error: 0.05", "max_ph_error: 0.1"), encoding="utf-8")
-    again = build(tmp_path, out, pdf=False)
-    site._shared_assets.cache_clear()
-    assert again.recomputed == ("tris-buffer-37c",)  # its pages need the equations
-    assert drawn == []
+    m.write_text(m.read_text(encoding="utf-8") + "# edited, nothing else changed\n", encoding="utf-8")
+    again = build(tmp_path, out, pdf=True)
+    assert again.recomputed == ("tris-buffer-37c",)  # its pages need the equations; dossier.pdf is bound again
+    assert [len(key[0]) for key in made] == [1]  # only the new fingerprint line: one line, laid out once
     assert {k: v for k, v in tree(out).items() if k.startswith(folder)} == before
 
 
