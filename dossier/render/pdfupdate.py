@@ -9,7 +9,8 @@ touches a few objects of every page (the fingerprint stamp) costs a read of
 the page tree and a write of those objects, instead of parsing, copying and
 writing the whole file again (about 0.1 – 1 s a report, several seconds for
 ``dossier.pdf``; docs/performance.md). Incremental updates are allowed in
-PDF/A (ISO 19005-3:2012 inherits them from ISO 32000-1).
+PDF/A (ISO 19005-3:2012 inherits them from ISO 32000-1 and does not forbid
+them; recalled from memory, not checked against the standard's text here).
 
 The cross-reference section is written as a cross-reference stream
 (ISO 32000-1, 7.5.8), which PDF 1.5 and later readers read whether the
