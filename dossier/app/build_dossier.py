@@ -225,8 +225,9 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
                 old_fingerprint=previous_identity[0], old_built=previous_identity[1])
             files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
             written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings, pool)
-        if store and memo.kept() != drawn:
-            store.put("drawings", _drawings_key(), memo.kept())
+        kept = memo.kept()
+        if store and kept != drawn:  # what this build used differs from what it was handed
+            store.put("drawings", _drawings_key(), kept)
         retire_signatures(out, fingerprint)  # they signed the build this one replaced (listed on its pages)
         if store:
             store.prune()  # what this build did not use

@@ -198,11 +198,6 @@ class WorkerPool:
         if self._starts is not None:
             self._starts.close()
 
-    @property
-    def started(self) -> bool:
-        """Whether worker processes are running."""
-        return self.executor is not None
-
     def _start(self, jobs: int) -> ProcessPoolExecutor | None:
         if self.executor is None and self.workers > 1 and jobs > 1:
             _preload()
