@@ -300,13 +300,16 @@ def _add_verify(sub: argparse._SubParsersAction) -> None:
     )
     p.add_argument("output", nargs="?", default="output", metavar="DIR", help="the built dossier (default: output)")
     p.add_argument("--methods", nargs="+", metavar="PATH", help="method files or folders to check against the manifest")
+    p.add_argument("--no-cache", action="store_true",
+                   help="re-compute every method, even one an earlier verify on this machine re-computed from the same recorded inputs with the same code")
     p.set_defaults(run=_run_verify)
 
 
 def _run_verify(args: argparse.Namespace) -> int:
     from .app import verify
 
-    report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True))
+    report = verify(args.output, methods=args.methods, progress=lambda mid: print(f"re-computing {mid}", file=sys.stderr, flush=True),
+                    cache=not args.no_cache)
     for note in report.notes:
         print(f"note: {note}")
     if report.fingerprint:
@@ -320,6 +323,9 @@ def _run_verify(args: argparse.Namespace) -> int:
     if report.ok:
         signed = f", {len(report.signatures)} signature(s)" if report.signatures else ""
         print(f"{args.output}: everything matches ({report.files_checked} files, {report.entries_checked} ledger entries re-computed{signed})")
+        if report.reused:
+            print(f"re-computations of {len(report.reused)} method(s) taken from this machine's verify cache "
+                  "(an earlier verify, same code, same recorded inputs); --no-cache re-computes them")
         return EXIT_OK
     print(f"{args.output}: {len(report.mismatches)} mismatch(es)")
     return EXIT_INPUT

@@ -10,12 +10,19 @@ failure with its reason.
 
 from __future__ import annotations
 
+import atexit
 import os
 import shutil
+import tempfile
 from collections.abc import Iterator
 
 import pytest
 from hypothesis import HealthCheck, settings
+
+# `dossier verify` keeps its re-computations in the user's cache folder ($XDG_CACHE_HOME);
+# the tests keep theirs in a folder of their own, removed at the end (each xdist worker its own).
+os.environ["XDG_CACHE_HOME"] = _CACHE_HOME = tempfile.mkdtemp(prefix="dossier-tests-cache-")
+atexit.register(shutil.rmtree, _CACHE_HOME, ignore_errors=True)
 
 pytest_plugins = ["pytester"]  # tests/test_conftest.py runs small pytest sessions
 

@@ -10,6 +10,12 @@ versions of matplotlib and WeasyPrint.
 Entries are pickles in a folder beside the output (``.NAME.cache``); after a
 successful build the entries it did not use are removed. The folder is the
 user's own: like any cache of pickles it must not be writable by others.
+
+``dossier verify`` keeps its own re-computations apart, in the user's cache
+folder (:func:`verify_cache_root`), never beside a dossier: a dossier that
+travels with a cache folder cannot bring its own "re-computed" numbers to the
+verification. Its entries are trimmed to the most recently used
+(:meth:`Cache.trim`).
 """
 
 from __future__ import annotations
@@ -25,7 +31,7 @@ from typing import Any, TypeVar
 
 from .. import __version__
 
-__all__ = ["Cache", "tool_fingerprint", "method_key", "dossier_key"]
+__all__ = ["Cache", "tool_fingerprint", "method_key", "dossier_key", "verify_cache_root"]
 
 T = TypeVar("T")
 
@@ -58,6 +64,14 @@ def dossier_key(method_keys: list[str], extra: dict[str, Any]) -> str:
     return hashlib.sha256(blob.encode()).hexdigest()
 
 
+def verify_cache_root() -> Path:
+    """The verify cache's folder: ``ph-dossier/verify`` in ``$XDG_CACHE_HOME`` (the XDG Base
+    Directory convention), else in ``~/.cache``."""
+    base = os.environ.get("XDG_CACHE_HOME") or ""
+    root = Path(base) if os.path.isabs(base) else Path.home() / ".cache"
+    return root / "ph-dossier" / "verify"
+
+
 class Cache:
     """Pickled entries under ``root/kind/key.pickle``; a missing or unreadable entry is a miss."""
 
@@ -84,6 +98,10 @@ class Cache:
         if not isinstance(value, expected):
             return None
         self.used.add(path)
+        try:
+            os.utime(path)  # last used: what :meth:`trim` keeps
+        except OSError:
+            pass
         return value
 
     def put(self, kind: str, key: str, value: object) -> None:
@@ -109,3 +127,25 @@ class Cache:
                     f.unlink()
                 except OSError:
                     pass
+
+    def trim(self, limit: int) -> None:
+        """Remove the least recently used entries (by modification time, which :meth:`get`
+        and :meth:`put` renew) until the entries take at most ``limit`` bytes."""
+        if not self.root.is_dir():
+            return
+        found = []
+        for f in self.root.rglob("*.pickle"):
+            try:
+                st = f.stat()
+            except OSError:
+                continue
+            found.append((st.st_mtime, st.st_size, f))
+        total = sum(size for _, size, _ in found)
+        for _, size, f in sorted(found, key=lambda t: t[0]):
+            if total <= limit:
+                break
+            try:
+                f.unlink()
+                total -= size
+            except OSError:
+                pass

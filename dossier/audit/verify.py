@@ -22,6 +22,7 @@ Each mismatch is reported by file and place, with both values.
 
 from __future__ import annotations
 
+import hashlib
 import json
 import multiprocessing
 import os
@@ -34,17 +35,22 @@ from pathlib import Path
 from typing import Any
 
 from .. import __version__
-from ..analysis.ledger import ledger_entries
+from ..analysis.ledger import Ledger, LedgerError, ledger_entries
 from ..analysis.method import MethodAnalysis, analyse_method
 from ..inputs.loader import find_method_files
 from ..layout import LAYOUT
 from ..publish.manifest import Manifest, ManifestError, sha256_file, stamp_text
-from .diff import NotADossier, read_ledger
+from .cache import Cache, tool_fingerprint, verify_cache_root
+from .diff import NotADossier
 from .numbers import (ABS_TOL, REL_TOL, Mismatch, PdfPage, PdfTextUnavailable, close, compare_csv, compare_json, compare_workbook, ledger_lines,
                       page_numbers, pdf_linked_numbers, read_pdf_pages, shown_matches)
 from .signatures import EARLIER, SignatureCheck, check_signatures, earlier_signatures, manifest_sha256, signatures_folder
 
-__all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "REL_TOL", "ABS_TOL"]
+__all__ = ["Mismatch", "VerifyReport", "verify", "check_integrity", "recomputation_key", "REL_TOL", "ABS_TOL", "VERIFY_CACHE_BYTES"]
+
+VERIFY_CACHE_BYTES = 200 * 1024 * 1024
+"""The verify cache keeps the most recently used re-computations up to this size (a
+dossier of 13 methods takes about 4 MB)."""
 
 @dataclass(frozen=True)
 class VerifyReport:
@@ -57,6 +63,8 @@ class VerifyReport:
     entries_checked: int
     fingerprint: str = ""
     signatures: tuple[SignatureCheck, ...] = ()
+    reused: tuple[str, ...] = ()
+    """Ids of the methods whose re-computation was taken from the verify cache."""
 
     @property
     def ok(self) -> bool:
@@ -75,7 +83,7 @@ manifest's order of methods), as the build makes them."""
 
 
 def verify(output: str | Path, *, methods: list[str | Path] | None = None, progress: Callable[[str], None] | None = None,
-           data_files: DataFiles | None = None, dossier_data_files: DossierDataFiles | None = None) -> VerifyReport:
+           data_files: DataFiles | None = None, dossier_data_files: DossierDataFiles | None = None, cache: bool = True) -> VerifyReport:
     """Check a built dossier against its manifest and ledgers, and every number it shows.
 
     Parameters
@@ -94,6 +102,13 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
     dossier_data_files : callable, optional
         Makes the dossier-wide data files afresh (:data:`DossierDataFiles`); with
         it (and ``data_files``), every cell of dossier.xlsx is compared too.
+    cache : bool
+        Take a method's re-computation (and its data files made afresh) from the verify
+        cache in the user's cache folder (:func:`~dossier.audit.cache.verify_cache_root`)
+        when an earlier verify on this machine, with the same code, re-computed it from the
+        same recorded inputs, and keep each new re-computation there. The recorded values
+        and every file are still compared with it; only the re-computation is reused.
+        ``False`` re-computes every method and neither reads nor writes the cache.
 
     Raises
     ------
@@ -114,32 +129,37 @@ def verify(output: str | Path, *, methods: list[str | Path] | None = None, progr
         notes.append(f"built with ph-dossier {manifest.tool_version}, verified with {__version__}: re-computed numbers may differ for that reason")
     texts = _PdfTexts(out)
     try:
-        return _verify(out, manifest, texts, notes, methods, progress, data_files, dossier_data_files)
+        return _verify(out, manifest, texts, notes, methods, progress, data_files, dossier_data_files, verify_cache_root() if cache else None)
     finally:
         texts.close()
 
 
 def _verify(out: Path, manifest: Manifest, texts: _PdfTexts, notes: list[str], methods: list[str | Path] | None,
-            progress: Callable[[str], None] | None, data_files: DataFiles | None, dossier_data_files: DossierDataFiles | None) -> VerifyReport:
+            progress: Callable[[str], None] | None, data_files: DataFiles | None, dossier_data_files: DossierDataFiles | None,
+            reuse: Path | None) -> VerifyReport:
     """:func:`verify` of a dossier whose manifest is read: the PDFs are read in the background
     (:meth:`_PdfTexts.start`) while the methods are re-computed."""
     ids = [m.id for m in manifest.methods]
     pool = _forked_pool(len(ids))  # forked before the reading threads start
     try:
-        pending = [pool.submit(_recompute, out, mid, data_files) for mid in ids] if pool else []
-        texts.start([o.path for o in manifest.outputs if o.path.endswith(".pdf") and (out / o.path).is_file()])
+        pending = [pool.submit(_recompute, out, mid, data_files, reuse) for mid in ids] if pool else []
+        pdfs = [o.path for o in manifest.outputs if o.path.endswith(".pdf") and (out / o.path).is_file()]
+        texts.start(sorted(pdfs, key=lambda rel: (out / rel).stat().st_size, reverse=True))  # the longest read (dossier.pdf) first
         mm = _check_files(out, manifest)
         seal = len(mm)  # the fingerprint's findings go here, once the PDFs are read
         entries_checked = 0
         fresh: dict[str, Fresh] = {}
         made: dict[str, dict[str, bytes]] = {}
+        reused: list[str] = []
         for i, mid in enumerate(ids):
             if progress:
                 progress(mid)
             try:
-                found, checked, recomputed, files = pending[i].result() if pool else _recompute(out, mid, data_files)
+                found, checked, recomputed, files, kept = pending[i].result() if pool else _recompute(out, mid, data_files, reuse)
             except BrokenProcessPool:  # a worker died (killed, out of memory): this process does it instead
-                found, checked, recomputed, files = _recompute(out, mid, data_files)
+                found, checked, recomputed, files, kept = _recompute(out, mid, data_files, reuse)
+            if kept:
+                reused.append(mid)
             mm += found
             entries_checked += checked
             if recomputed is not None:
@@ -161,7 +181,9 @@ def _verify(out: Path, manifest: Manifest, texts: _PdfTexts, notes: list[str], m
         notes.append(f"{len(earlier)} signature(s) of earlier builds kept in {signatures_folder(out).name}/{EARLIER}/ (moved aside by a rebuild; "
                      "they do not apply to this build)")
     mm += [Mismatch(s.file, "signature", s.problem) for s in signed if not s.applies]
-    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked, manifest.fingerprint(), signed)
+    if reuse is not None:
+        Cache(reuse).trim(VERIFY_CACHE_BYTES)
+    return VerifyReport(tuple(mm), tuple(notes), len(manifest.outputs), entries_checked, manifest.fingerprint(), signed, tuple(reused))
 
 
 def check_integrity(output: str | Path) -> tuple[Manifest, list[Mismatch]]:
@@ -234,11 +256,24 @@ def _check_files(out: Path, manifest: Manifest) -> list[Mismatch]:
 
 @dataclass(frozen=True)
 class Fresh:
-    """One method re-computed: its analysis, every entry's value and unit."""
+    """One method re-computed: every ledger entry's value and unit."""
 
-    analysis: MethodAnalysis
+    method_id: str
     values: dict[str, float]
     units: dict[str, str]
+
+
+@dataclass(frozen=True)
+class Recomputation:
+    """What :func:`_recompute` keeps in the verify cache for one method: the re-computation,
+    and the method's data files made afresh from it (None when verify makes none)."""
+
+    fresh: Fresh
+    made: dict[str, bytes] | None
+
+
+REUSE = "recomputed"
+"""Kind of the verify cache's entries (:class:`~dossier.audit.cache.Cache`)."""
 
 
 def _forked_pool(methods: int) -> ProcessPoolExecutor | None:
@@ -252,51 +287,59 @@ def _forked_pool(methods: int) -> ProcessPoolExecutor | None:
     return ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("fork"))
 
 
-def _recompute(out: Path, method_id: str, data_files: DataFiles | None) -> tuple[list[Mismatch], int, Fresh | None, dict[str, bytes] | None]:
-    """One method's re-computation and its comparisons (:func:`_check_ledger`, then
-    :func:`_check_data_files` with ``data_files``): mismatches, entries checked, the
-    re-computation, and the data files made afresh. Runs in a worker process."""
-    found, checked, recomputed = _check_ledger(out, method_id)
-    if recomputed is None or data_files is None:
-        return found, checked, recomputed, None
-    more, made = _check_data_files(out, recomputed, data_files)
-    return found + more, checked, recomputed, made
+def recomputation_key(ledger: dict[str, Any], table_sha256: str | None) -> str:
+    """Key of a method's re-computation in the verify cache: SHA-256 over the tool's code
+    (:func:`~dossier.audit.cache.tool_fingerprint`), the inputs the ledger records (its
+    ``method`` and ``settings``, on which the re-computation alone depends) and, when the data
+    files are made afresh, the substance table's SHA-256 that results.json records."""
+    blob = json.dumps({"tool": tool_fingerprint(), "method": ledger.get("method"), "settings": ledger.get("settings"), "table": table_sha256},
+                      sort_keys=True, default=str)
+    return hashlib.sha256(blob.encode()).hexdigest()
 
 
-def _check_ledger(out: Path, method_id: str) -> tuple[list[Mismatch], int, Fresh | None]:
-    """Re-compute one method from its ledger's recorded inputs and compare every entry."""
+def _recompute(out: Path, method_id: str, data_files: DataFiles | None, reuse: Path | None) -> tuple[list[Mismatch], int, Fresh | None, dict[str, bytes] | None, bool]:
+    """One method re-computed from its ledger's recorded inputs, every entry compared, and
+    (with ``data_files``) its results.json, CSV tables and workbook compared value by value
+    with the same files made afresh: mismatches, entries checked, the re-computation, the
+    data files made afresh, and whether the re-computation was taken from the verify cache
+    in ``reuse`` (made by an earlier verify on this machine, with the same code, from the
+    same recorded inputs). Runs in a worker process."""
     rel = LAYOUT.ledger(method_id)
     try:
-        ledger = read_ledger(out, method_id)
-    except NotADossier as exc:
-        return [Mismatch(rel, "", f"cannot read the ledger: {exc}")], 0, None
-    recorded = ledger.values()
-    analysis = analyse_method(ledger.method, ledger.settings)
-    entries = ledger_entries(analysis)
-    fresh = {e.id: e.value for e in entries}
+        document = json.loads((out / rel).read_text(encoding="utf-8"))
+        ledger = Ledger.from_document(document)
+    except (OSError, ValueError, LedgerError) as exc:
+        return [Mismatch(rel, "", f"cannot read the ledger: {exc}")], 0, None, None, False
     mm: list[Mismatch] = []
+    table: str | None = None
+    if data_files is not None:
+        try:
+            table = str(json.loads((out / LAYOUT.results(method_id)).read_text(encoding="utf-8")).get("substance_table_sha256", ""))
+        except (OSError, ValueError, AttributeError) as exc:
+            mm.append(Mismatch(LAYOUT.results(method_id), "", f"cannot read: {exc}"))
+    store = Cache(reuse) if reuse is not None else None
+    key = recomputation_key(document, table)
+    kept = store.get(REUSE, key, Recomputation) if store is not None else None
+    reused = kept is not None
+    if kept is None:
+        analysis = analyse_method(ledger.method, ledger.settings)
+        entries = ledger_entries(analysis)
+        fresh = Fresh(method_id, {e.id: e.value for e in entries}, {e.id: e.unit for e in entries})
+        kept = Recomputation(fresh, data_files(analysis, table) if data_files is not None and table is not None else None)
+        if store is not None:
+            store.put(REUSE, key, kept)
+    recorded = ledger.values()
+    fresh = kept.fresh
     for eid, value in recorded.items():
-        if eid not in fresh:
+        if eid not in fresh.values:
             mm.append(Mismatch(rel, eid, "recorded, but the re-computation has no such number"))
-        elif not close(value, fresh[eid]):
-            mm.append(Mismatch(rel, eid, f"recorded {value!r}, re-computed {fresh[eid]!r}"))
-    for eid in fresh.keys() - recorded.keys():
+        elif not close(value, fresh.values[eid]):
+            mm.append(Mismatch(rel, eid, f"recorded {value!r}, re-computed {fresh.values[eid]!r}"))
+    for eid in fresh.values.keys() - recorded.keys():
         mm.append(Mismatch(rel, eid, "re-computed, but not recorded in the ledger"))
-    return mm, len(recorded), Fresh(analysis, fresh, {e.id: e.unit for e in entries})
-
-
-def _check_data_files(out: Path, fresh: Fresh, data_files: DataFiles) -> tuple[list[Mismatch], dict[str, bytes]]:
-    """results.json, every CSV table and the workbook of a method, value by value, against the
-    same files made afresh; returns the mismatches and the files made afresh."""
-    mid = fresh.analysis.method.id
-    results = out / LAYOUT.results(mid)
-    try:
-        published = json.loads(results.read_text(encoding="utf-8"))
-        table_sha256 = str(published.get("substance_table_sha256", ""))
-    except (OSError, ValueError, AttributeError) as exc:
-        return [Mismatch(LAYOUT.results(mid), "", f"cannot read: {exc}")], {}
-    made = data_files(fresh.analysis, table_sha256)
-    return _compare_files(out, made), made
+    if kept.made is not None:
+        mm += _compare_files(out, kept.made)
+    return mm, len(recorded), fresh, kept.made, reused
 
 
 def _compare_files(out: Path, made: dict[str, bytes]) -> list[Mismatch]:

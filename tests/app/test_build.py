@@ -114,6 +114,59 @@ def test_verify_passes_then_reports_each_tampering(tmp_path: Path, monkeypatch: 
     assert not report.ok
 
 
+def _forge_hash(out: Path, rel: str) -> None:
+    """Record the file's present SHA-256 in the manifest (a tamper that re-hashes)."""
+    manifest = json.loads((out / "manifest.json").read_text(encoding="utf-8"))
+    for o in manifest["outputs"]:
+        if o["path"] == rel:
+            o["sha256"] = hashlib.sha256((out / rel).read_bytes()).hexdigest()
+    (out / "manifest.json").write_text(json.dumps(manifest), encoding="utf-8")
+
+
+def test_verify_reuses_only_its_own_recomputation_of_the_same_recorded_inputs(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    cache_home = tmp_path / "user-cache"
+    monkeypatch.setenv("XDG_CACHE_HOME", str(cache_home))
+    out = tmp_path / "output"
+    assert build(tmp_path, out, pdf=False).ok
+    kept = cache_home / "ph-dossier" / "verify" / "recomputed"
+    first = verify(out)
+    assert first.ok and first.reused == ()
+    assert len(list(kept.glob("*.pickle"))) == 2  # one re-computation per method, in the user's cache folder
+    assert not (tmp_path / ".output.cache" / "recomputed").exists()  # never beside the dossier
+    second = verify(out)
+    assert second.ok, [str(m) for m in second.mismatches]
+    assert sorted(second.reused) == ["benzoate-extract", "tris-buffer-37c"]
+    assert second.entries_checked == first.entries_checked
+    # a reused re-computation is still compared: an edited value of a data file is found
+    results = out / "methods" / "benzoate-extract" / "results.json"
+    original = results.read_text(encoding="utf-8")
+    results.write_text(original.replace('"ph": 3.', '"ph": 4.', 1), encoding="utf-8")
+    _forge_hash(out, "methods/benzoate-extract/results.json")
+    edited = verify(out)
+    assert "benzoate-extract" in edited.reused
+    assert any(str(m).startswith("methods/benzoate-extract/results.json: ") and "ph" in str(m) for m in edited.mismatches)
+    results.write_text(original, encoding="utf-8")
+    _forge_hash(out, "methods/benzoate-extract/results.json")
+    # a changed recorded input (the acceptance limit in the ledger, re-hashed) is another key: re-computed, and found
+    ledger = out / "methods" / "tris-buffer-37c" / "ledger.json"
+    doc = json.loads(ledger.read_text(encoding="utf-8"))
+    doc["method"]["criteria"]["max_ph_error"] = 0.01
+    ledger.write_text(json.dumps(doc, indent=2), encoding="utf-8")
+    _forge_hash(out, "methods/tris-buffer-37c/ledger.json")
+    third = verify(out)
+    assert third.reused == ("benzoate-extract",)
+    assert any(str(m).startswith("methods/tris-buffer-37c/") for m in third.mismatches)
+    # without the cache every method is re-computed, and nothing is read or written there
+    for f in kept.glob("*.pickle"):
+        f.write_bytes(b"not a pickle")
+    fourth = verify(out, cache=False)
+    assert fourth.reused == () and not fourth.ok
+    assert all(f.read_bytes() == b"not a pickle" for f in kept.glob("*.pickle"))
+    # an unreadable entry is a miss, re-computed and kept again
+    fifth = verify(out)
+    assert fifth.reused == () and [str(m) for m in fifth.mismatches] == [str(m) for m in third.mismatches]
+
+
 def test_verify_command_exit_codes(tmp_path: Path) -> None:
     methods = methods_dir(tmp_path, TWO[:1])
     out = tmp_path / "output"
