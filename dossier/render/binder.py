@@ -204,7 +204,9 @@ def _lay_out(key: tuple[tuple[str, ...], float, float, float, float]) -> bytes:
     return out
 
 
-_LAID_OUT = Memo("page stamps", _lay_out)
+_LAID_OUT = Memo("page stamps", _lay_out, spare=4)
+"""The page-stamp overlays; beside those a build used it keeps four more of the build before
+(the page-number lines of a dossier a page longer or shorter, as an edit undone gives)."""
 
 
 def _stream(data: bytes) -> StreamObject:

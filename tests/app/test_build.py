@@ -274,29 +274,40 @@ def test_nothing_changed_recomputes_nothing_and_one_change_recomputes_one(tmp_pa
     assert verify(out).ok
 
 
-def test_a_rebuild_takes_the_drawings_an_earlier_build_made_from_the_cache(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
-    """The equations and the "dossier page N of T" lines are drawn by the first build only: a
-    second process (memos emptied) with one method changed draws no equation and lays out only
-    the new fingerprint line, and publishes the same equation files."""
-    from dossier.render import binder, equations, site
+_COUNT_DRAWINGS = """
+import json, sys
+from dossier.cli import main
+from dossier.render import memo
+code = main(sys.argv[1:])
+print(json.dumps({"code": code, "made": {name: [len(key[0]) if isinstance(key, tuple) else 1 for key in m.made] for name, m in memo._MEMOS.items()}}))
+"""
 
+
+def test_a_rebuild_takes_the_drawings_an_earlier_build_made_from_the_cache(tmp_path: Path) -> None:
+    """The equations and the "dossier page N of T" lines are drawn by the first build only: a
+    second process, as a user runs it, with one method changed draws no equation and lays out
+    only the new fingerprint line (the binder's memo is made after the cache is read), and
+    publishes the same equation files. Each build is a process of its own."""
+    methods = methods_dir(tmp_path)
     out = tmp_path / "output"
-    build(tmp_path, out, pdf=True)
+
+    def run() -> dict[str, list[int]]:
+        done = subprocess.run([sys.executable, "-c", _COUNT_DRAWINGS, "build", str(methods), "-o", str(out), "--draws", "2000", "--quiet"],
+                              cwd=tmp_path, capture_output=True, text=True, timeout=900)
+        assert done.returncode == 0, done.stderr[-2000:]
+        report = json.loads(done.stdout.strip().splitlines()[-1])
+        assert report["code"] == 0
+        return report["made"]
+
+    first = run()
+    assert len(first["equations"]) > 10 and sorted(first["page stamps"])[-1] > 10  # drawn: the equations, the page-number lines
     folder = LAYOUT.equation("x").rsplit("/", 1)[0]
     before = {k: v for k, v in tree(out).items() if k.startswith(folder)}
     assert before
-    made: list[object] = []
-    for m in (equations._DRAWN, binder._LAID_OUT):  # as in a new process: nothing made yet, and count what is
-        monkeypatch.setattr(m, "_done", {})
-        monkeypatch.setattr(m, "_used", set())
-        real = m._make
-        monkeypatch.setattr(m, "_make", lambda key, real=real: made.append(key) or real(key))
-    site._shared_assets.cache_clear()  # the equations are asked for again
-    m = tmp_path / "methods" / "tris-buffer-37c.yaml"
+    m = methods / "tris-buffer-37c.yaml"
     m.write_text(m.read_text(encoding="utf-8") + "# edited, nothing else changed\n", encoding="utf-8")
-    again = build(tmp_path, out, pdf=True)
-    assert again.recomputed == ("tris-buffer-37c",)  # its pages need the equations; dossier.pdf is bound again
-    assert [len(key[0]) for key in made] == [1]  # only the new fingerprint line: one line, laid out once
+    again = run()
+    assert again["equations"] == [] and again["page stamps"] == [1]  # only the new fingerprint line, laid out once
     assert {k: v for k, v in tree(out).items() if k.startswith(folder)} == before
 
 
