@@ -295,6 +295,22 @@ def test_a_pdf_whose_ledger_appendix_shows_other_numbers_is_caught(copy: Path, t
     assert ", re-computed " in mc[0]
 
 
+def test_a_pdf_whose_fingerprint_stamp_was_taken_off_is_caught(copy: Path) -> None:
+    """The stamp is the last incremental update of each PDF: cut off, the PDF is the one laid
+    out before (still a valid PDF, its page numbers kept), and no page shows the fingerprint."""
+    from pypdf import PdfReader
+
+    require_executable("pdftotext", "reads the PDFs' text")
+    data = (copy / "dossier.pdf").read_bytes()
+    cut = data.rindex(b"%%EOF", 0, len(data) - 8) + len(b"%%EOF\n")
+    (copy / "dossier.pdf").write_bytes(data[:cut])
+    rehash(copy, "dossier.pdf")
+    lines = [str(m) for m in verify(copy, cache=False).mismatches]
+    pages = [line for line in lines if line.startswith("dossier.pdf: page ") and ": does not show this dossier's fingerprint line " in line]
+    assert len(pages) == len(PdfReader(copy / "dossier.pdf").pages) > 6, lines
+    assert all(not line.startswith("methods/") for line in lines)  # the reports keep their stamps
+
+
 def test_without_pdftotext_verify_reads_the_appendix_and_the_fingerprint_lines_with_pypdf_and_says_so(dossier: Path, copy: Path,
                                                                                                      tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     """pdftotext missing from PATH: the intact dossier still verifies (every PDF's ledger rows and
