@@ -17,7 +17,7 @@ import hashlib
 import os
 import platform
 import time
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from contextlib import contextmanager
 from dataclasses import dataclass, field, replace
 from datetime import datetime, timezone
@@ -42,7 +42,7 @@ from ..publish.writer import Writer
 from ..render.buildinfo import STAMP_PLACEHOLDER, BuildInfo, RecordedSignature
 from ..render.context import BuildContext
 from ..render import memo
-from ..render.site import render_dossier
+from ..render.site import render_dossier, shared_assets
 from .errors import UserError
 from .revisions import revision_problems
 from .jobs import MethodOutcome, Reporter, Silent, WorkerPool, expected_cost, method_job
@@ -223,8 +223,12 @@ def _build(paths: Sequence[str | Path], output: str | Path, opts: BuildOptions, 
             diff = None if previous is None else replace(
                 diff_ledgers(previous, {o.analysis.method.id: o.ledger for o in outcomes}, portable_path(opts.previous or ""), "this build"),
                 old_fingerprint=previous_identity[0], old_built=previous_identity[1])
-            files = _dossier_files(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings)
-            written, fingerprint = _publish(files, inputs.methods, ctx, out, rep, timings, pool)
+            files = _method_files(outcomes)
+            with _timed(timings, "stamp the fingerprint"):
+                seal = _seal(files, inputs.methods, ctx)
+                reports = _stamp_beside(files, seal, pool)  # the method PDFs, in a worker while the dossier is laid out here
+            files.update(_dossier_site(outcomes, ctx, diff, _recorded_signatures(out), store, rep, timings))
+            written, fingerprint = _publish(files, seal, reports, inputs.methods, ctx, out, rep, timings, pool)
         kept = memo.kept()
         if store and kept != drawn:  # what this build used differs from what it was handed
             store.put("drawings", _drawings_key(), kept)
@@ -331,13 +335,19 @@ def _recorded_signatures(out: Path) -> tuple[RecordedSignature, ...]:
                  for c in check_signatures(out, None, None) if c.statement is not None)
 
 
-def _dossier_files(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff: DossierDiff | None, recorded: tuple[RecordedSignature, ...],
-                   store: Cache | None, rep: Reporter, timings: dict[str, float]) -> dict[str, bytes]:
-    """Every file of the dossier: each method's, then the dossier-wide pages and PDF (cached too)."""
+def _method_files(outcomes: tuple[MethodOutcome, ...]) -> dict[str, bytes]:
+    """Each method's files, and the dossier-wide data files made from them (dossier.xlsx)."""
     files: dict[str, bytes] = {}
     for o in outcomes:
         files.update(o.files)
     files.update(dossier_data_files({o.analysis.method.id: o.files for o in outcomes}))
+    return files
+
+
+def _dossier_site(outcomes: tuple[MethodOutcome, ...], ctx: BuildContext, diff: DossierDiff | None, recorded: tuple[RecordedSignature, ...],
+                  store: Cache | None, rep: Reporter, timings: dict[str, float]) -> dict[str, bytes]:
+    """The dossier-wide pages, shared assets and PDF (cached too); none without the site."""
+    files: dict[str, bytes] = {}
     if not ctx.site:
         return files
     diff_key = None if diff is None else hashlib.sha256(repr(diff).encode()).hexdigest()
@@ -377,41 +387,72 @@ def _inputs_record(methods: tuple[Method, ...], table: SubstanceTable) -> tuple[
     return tuple(out)
 
 
-def _publish(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext, out: Path, rep: Reporter,
-             timings: dict[str, float], pool: WorkerPool) -> tuple[dict[str, str], str]:
-    """Stamp the pages and PDFs with the fingerprint, write every file into a
-    staging folder, the manifest last, and swap it into place.
+def _manifest_of(methods: tuple[Method, ...], ctx: BuildContext, outputs: dict[str, tuple[str, int]]) -> Manifest:
+    """The build's manifest listing ``outputs`` ({path: (SHA-256, bytes)})."""
+    keys = _keys(methods, ctx)
+    return new_manifest(
+        build_time=ctx.info.time,
+        python=ctx.info.python,
+        settings=solver_settings(ctx.settings, ctx.pdf),
+        inputs=_inputs_record(methods, ctx.table),
+        methods=tuple(MethodRecord(m.id, m.revision, portable_path(m.path), m.source_sha256, keys[m.id]) for m in methods),
+        outputs=outputs,
+    )
+
+
+@dataclass(frozen=True)
+class Seal:
+    """The fingerprint and what it seals: the line every page shows, the method files
+    published (and attached to the PDFs), the build time, and the sealed files."""
+
+    fingerprint: str
+    line: str
+    sources: dict[str, bytes]
+    built: datetime
+    sealed: dict[str, tuple[str, int]]
+
+
+def _sealed(files: dict[str, bytes]) -> dict[str, tuple[str, int]]:
+    """{path: (SHA-256, bytes)} of the files the fingerprint seals (all but pages and PDFs)."""
+    return {rel: (hashlib.sha256(data).hexdigest(), len(data)) for rel, data in files.items() if not is_stamped(rel)}
+
+
+def _seal(files: dict[str, bytes], methods: tuple[Method, ...], ctx: BuildContext) -> Seal:
+    """The fingerprint of the build, before the dossier-wide pages and PDF are made.
 
     The fingerprint seals the manifest without the stamped files
-    (:meth:`~dossier.publish.manifest.Manifest.fingerprint`), so it is
-    computed from the files as rendered, then shown on every page and PDF page.
+    (:meth:`~dossier.publish.manifest.Manifest.fingerprint`). Of the dossier-wide
+    files only the shared assets are sealed (the rest are pages and dossier.pdf,
+    which show it), so it is known once the methods are done: the method PDFs can
+    be stamped while the dossier is laid out. :func:`_publish` checks that the
+    dossier-wide files added nothing else to the sealed part.
     """
-    keys = _keys(methods, ctx)
+    sources = _method_sources(methods)
+    sealed = _sealed({**files, **(shared_assets() if ctx.site else {}), **sources})
+    manifest = _manifest_of(methods, ctx, sealed)
+    fingerprint = manifest.fingerprint()
+    return Seal(fingerprint, stamp_text(fingerprint, manifest.tool_version, manifest.git_commit, manifest.git_dirty), sources,
+                datetime.strptime(ctx.info.time, BUILD_TIME_FORMAT).replace(tzinfo=timezone.utc), sealed)
 
-    def manifest_of(outputs: dict[str, tuple[str, int]]) -> Any:
-        return new_manifest(
-            build_time=ctx.info.time,
-            python=ctx.info.python,
-            settings=solver_settings(ctx.settings, ctx.pdf),
-            inputs=_inputs_record(methods, ctx.table),
-            methods=tuple(MethodRecord(m.id, m.revision, portable_path(m.path), m.source_sha256, keys[m.id]) for m in methods),
-            outputs=outputs,
-        )
 
+def _publish(files: dict[str, bytes], seal: Seal, reports: Callable[[], dict[str, bytes]], methods: tuple[Method, ...], ctx: BuildContext,
+             out: Path, rep: Reporter, timings: dict[str, float], pool: WorkerPool) -> tuple[dict[str, str], str]:
+    """Stamp the pages and the dossier PDF with the fingerprint (the method PDFs
+    are stamped already, ``reports`` waits for them), write every file into a
+    staging folder, the manifest last, and swap it into place."""
+    fingerprint = seal.fingerprint
     with _timed(timings, "stamp the fingerprint"):
-        sources = _method_sources(methods)
-        files = {**files, **sources}
-        sealed = manifest_of({rel: (hashlib.sha256(data).hexdigest(), len(data)) for rel, data in files.items() if not is_stamped(rel)})
-        fingerprint = sealed.fingerprint()
-        stamped = _stamp(files, stamp_text(fingerprint, sealed.tool_version, sealed.git_commit, sealed.git_dirty), sources,
-                         datetime.strptime(ctx.info.time, BUILD_TIME_FORMAT).replace(tzinfo=timezone.utc), pool)
+        files = {**files, **seal.sources}
+        if _sealed(files) != seal.sealed:  # pragma: no cover - the dossier-wide files seal only the shared assets
+            raise RuntimeError("the dossier-wide files changed what the fingerprint seals after it was computed")
+        stamped = _stamp(files, seal, pool, done=reports())
     with _timed(timings, "publish"), _as_publish_error(out):
         rep.stage("publishing", 1)
         with staging_folder(out) as staging:
             writer = Writer(staging)
             for rel in sorted(stamped):
                 writer.write(rel, stamped[rel])
-            manifest = manifest_of({rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written})
+            manifest = _manifest_of(methods, ctx, {rel: (writer.written[rel], writer.sizes[rel]) for rel in writer.written})
             if manifest.fingerprint() != fingerprint:  # pragma: no cover - the sealed files are written as they are
                 raise RuntimeError("the fingerprint changed while the dossier was written")
             writer.write(LAYOUT.manifest, manifest.to_bytes())
@@ -434,25 +475,36 @@ def _method_sources(methods: tuple[Method, ...]) -> dict[str, bytes]:
     return out
 
 
-def _stamp(files: dict[str, bytes], line: str, sources: dict[str, bytes], built: datetime, pool: WorkerPool) -> dict[str, bytes]:
-    """Every page with its placeholder replaced by ``line``; every PDF with ``line`` at the
-    foot of each page and its method files attached (a method PDF its own, dossier.pdf all),
-    dated ``built``. The PDFs are stamped in the build's workers when they are running
-    (largest first: dossier.pdf takes as long as several reports)."""
-    placeholder, text = STAMP_PLACEHOLDER.encode(), line.encode()
-    name = {rel: rel.rsplit("/", 1)[-1] for rel in sources}
-    out, pdfs = {}, []
+def _stamp_jobs(files: dict[str, bytes], seal: Seal) -> list[tuple[str, StampJob]]:
+    """A stamp job for every PDF of ``files`` (its method files to attach: a method PDF its
+    own, dossier.pdf all), largest first: dossier.pdf takes as long as several reports."""
+    name = {rel: rel.rsplit("/", 1)[-1] for rel in seal.sources}
+    jobs = []
     for rel, data in files.items():
-        if rel.endswith(".html"):
-            out[rel] = data.replace(placeholder, text)
-        elif rel.endswith(".pdf"):
+        if rel.endswith(".pdf"):
             mid = LAYOUT.method_of(rel)
-            own = {name[s]: sources[s] for s in sources if mid is None or LAYOUT.method_of(s) == mid}
-            pdfs.append((rel, StampJob(data, line, own, built)))
-        else:
-            out[rel] = data
-    pdfs.sort(key=lambda job: len(job[1].pdf), reverse=True)
-    out.update(zip((rel for rel, _ in pdfs), pool.map(stamp_job, [job for _, job in pdfs], "stamping the PDFs with the fingerprint")))
+            own = {name[s]: seal.sources[s] for s in seal.sources if mid is None or LAYOUT.method_of(s) == mid}
+            jobs.append((rel, StampJob(data, seal.line, own, seal.built)))
+    return sorted(jobs, key=lambda job: len(job[1].pdf), reverse=True)
+
+
+def _stamp_beside(files: dict[str, bytes], seal: Seal, pool: WorkerPool) -> Callable[[], dict[str, bytes]]:
+    """Start stamping the PDFs of ``files`` (the method PDFs) in a worker (:meth:`WorkerPool.beside`);
+    returns the call that waits for them, {path: stamped PDF}."""
+    jobs = _stamp_jobs(files, seal)
+    results = pool.beside(stamp_job, [job for _, job in jobs], "stamping the PDFs with the fingerprint")
+    return lambda: dict(zip((rel for rel, _ in jobs), results()))
+
+
+def _stamp(files: dict[str, bytes], seal: Seal, pool: WorkerPool, done: dict[str, bytes]) -> dict[str, bytes]:
+    """Every page with its placeholder replaced by the fingerprint line; every PDF not in ``done``
+    (stamped already) with the line at the foot of each page and its method files attached,
+    dated with the build time (:func:`stamp_job`, in the build's workers when they are running)."""
+    placeholder, text = STAMP_PLACEHOLDER.encode(), seal.line.encode()
+    out = {rel: data.replace(placeholder, text) if rel.endswith(".html") else data for rel, data in files.items() if not rel.endswith(".pdf")}
+    jobs = _stamp_jobs({rel: data for rel, data in files.items() if rel not in done}, seal)
+    out.update(done)
+    out.update(zip((rel for rel, _ in jobs), pool.map(stamp_job, [job for _, job in jobs], "stamping the PDFs with the fingerprint")))
     return out
 
 

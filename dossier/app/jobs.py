@@ -169,13 +169,15 @@ class WorkerPool:
     job, else in this one.
 
     The workers are started by the first :meth:`run` that needs them, and
-    stay for the rest of the build: :meth:`map` hands its jobs (the
-    fingerprint stamps) to them only if they are already running, since
-    starting workers for a few short jobs costs more than it saves. On Linux
-    the workers are forked from this process, which has imported the
-    analysis and rendering code already (and has started no thread, opened
-    no renderer), so a worker starts without importing the whole stack again
-    (about 1.4 s of CPU each); elsewhere they are spawned. (A fork server
+    stay for the rest of the build: :meth:`map` hands its jobs (the stamp of
+    dossier.pdf) to them only if they are already running, since starting
+    workers for a few short jobs costs more than it saves; :meth:`beside`
+    (the stamps of the method PDFs, while this process lays out the
+    dossier) starts one worker if none is running. On Linux the workers are
+    forked from this process, which has imported the analysis and rendering
+    code already and has started no thread (the build starts none), so a
+    worker starts without importing the whole stack again (about 1.4 s of
+    CPU each); elsewhere they are spawned. (A fork server
     would do the same, but its workers are not this process's children, so
     their CPU time would be missing from what the benchmarks measure.)
 
@@ -198,12 +200,13 @@ class WorkerPool:
         if self._starts is not None:
             self._starts.close()
 
-    def _start(self, jobs: int) -> ProcessPoolExecutor | None:
+    def _start(self, jobs: int, most: int | None = None) -> ProcessPoolExecutor | None:
         if self.executor is None and self.workers > 1 and jobs > 1:
             _preload()
             context = multiprocessing.get_context("fork" if sys.platform == "linux" else "spawn")
             self._starts = context.SimpleQueue()
-            self.executor = ProcessPoolExecutor(max_workers=min(self.workers, jobs), mp_context=context, initializer=_worker_init, initargs=(self._starts,))
+            self.executor = ProcessPoolExecutor(max_workers=min(self.workers, jobs, most or jobs), mp_context=context, initializer=_worker_init,
+                                                initargs=(self._starts,))
         return self.executor
 
     def run(self, fn: Callable[[A, BuildContext], R], items: Sequence[A], ctx: BuildContext, labels: Sequence[str], reporter: Reporter) -> list[R]:
@@ -245,6 +248,27 @@ class WorkerPool:
         except BrokenProcessPool:
             self.executor.shutdown(wait=True, cancel_futures=True)
             raise WorkerLost([], during=what) from None
+
+    def beside(self, fn: Callable[[A], R], items: Sequence[A], what: str) -> Callable[[], list[R]]:
+        """Start ``fn(item)`` for each item in the workers, to run beside what this process does
+        next; returns the call that waits for the results (in the order of ``items``). When no
+        worker is running yet (a rebuild whose one changed method ran here), one is started for
+        them, since this process has its own work meanwhile (for a single item none is started);
+        without a worker the jobs run here when the results are asked for.
+        ``what``: the jobs, as :class:`WorkerLost` names them if a worker dies."""
+        executor = self._start(2, most=1) if len(items) > 1 else self.executor
+        if executor is None:
+            return lambda: [fn(item) for item in items]
+        futures = [executor.submit(fn, item) for item in items]
+
+        def results() -> list[R]:
+            try:
+                return [f.result() for f in futures]
+            except BrokenProcessPool:
+                executor.shutdown(wait=True, cancel_futures=True)
+                raise WorkerLost([], during=what) from None
+
+        return results
 
     def _lost_jobs(self, processes: Mapping[int, multiprocessing.process.BaseProcess], done: Mapping[int, object]) -> list[int]:
         """The unfinished jobs of the worker that died; when that cannot be told apart,
