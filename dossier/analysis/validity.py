@@ -47,7 +47,6 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 from numpy.typing import NDArray
-from scipy.optimize import brentq
 
 from .. import limits
 from ..chemistry import CATALOGUE, ActivityModelId, Approximation, Solution, activity_model, equilibrium
@@ -389,6 +388,8 @@ def _clip(intervals: tuple[Interval, ...], allowed: tuple[tuple[float, float], .
 
 def _level(f, a: float, b: float, fa: float, level: float, tol: float) -> float:  # noqa: ANN001
     """Where f crosses ``level`` between a and b (one side each); the end inside (f ≤ level) when no root is bracketed."""
+    from scipy.optimize import brentq  # imported on use: scipy.optimize takes about 0.45 s to import
+
     try:
         return float(brentq(lambda v: f(v) - level, a, b, xtol=tol, rtol=4 * np.finfo(float).eps))
     except ValueError:

@@ -160,7 +160,10 @@ class WorkerLost(UserError):
 
 def _preload() -> None:
     """Import what every method job needs and the application does not import at start
-    (matplotlib, through the figure modules), so that forked workers find it imported."""
+    (matplotlib, through the figure modules, and scipy.optimize), so that forked workers
+    find it imported."""
+    import scipy.optimize  # noqa: F401
+
     from ..render import figure_robustness, figures  # noqa: F401
 
 
